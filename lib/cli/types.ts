@@ -1,0 +1,8 @@
+/** Where a CLI command writes; injected so tests can capture output. */
+export interface CliIo {
+  stdout: (text: string) => void;
+  stderr: (text: string) => void;
+}
+
+/** A subcommand: receives the arguments after its name, returns the process exit code. */
+export type CliCommand = (argv: string[], io: CliIo) => Promise<number>;

@@ -1,0 +1,32 @@
+// Runs after every `npm install` / `npm ci`:
+// 1. makes sure better-sqlite3's native addon exists (npm 11 may hold install scripts back);
+// 2. generates the Prisma client into lib/generated/prisma.
+import { execFileSync } from "node:child_process";
+import { createRequire } from "node:module";
+import { existsSync } from "node:fs";
+import path from "node:path";
+
+const require = createRequire(import.meta.url);
+const root = path.resolve(import.meta.dirname, "..");
+
+function nativeAddonLoads() {
+  try {
+    const Database = require("better-sqlite3");
+    new Database(":memory:").close();
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+if (!nativeAddonLoads()) {
+  console.log("[postinstall] better-sqlite3 native addon missing: building it from source");
+  const pkgDir = path.dirname(require.resolve("better-sqlite3/package.json"));
+  execFileSync("npx", ["--no-install", "node-gyp", "rebuild", "--release"], { cwd: pkgDir, stdio: "inherit" });
+  if (!nativeAddonLoads()) {
+    console.error("[postinstall] better-sqlite3 still does not load; see the messages above");
+    process.exit(1);
+  }
+}
+
+execFileSync(process.execPath, [path.join(root, "scripts/prisma-generate.mjs")], { stdio: "inherit" });
