@@ -331,3 +331,12 @@ CREATE UNIQUE INDEX "AlloyPropertyOverride_alloyKey_property_key" ON "AlloyPrope
 
 -- CreateIndex
 CREATE UNIQUE INDEX "ExportRun_name_key" ON "ExportRun"("name");
+
+-- Audit events are append-only.
+CREATE TRIGGER "AuditEvent_no_update" BEFORE UPDATE ON "AuditEvent" BEGIN SELECT RAISE(ABORT, 'audit events are append-only'); END;
+CREATE TRIGGER "AuditEvent_no_delete" BEFORE DELETE ON "AuditEvent" BEGIN SELECT RAISE(ABORT, 'audit events are append-only'); END;
+
+-- Nothing a user entered is hard-deleted: records are rejected, flags resolved, sources kept.
+CREATE TRIGGER "BuildRecord_no_delete" BEFORE DELETE ON "BuildRecord" BEGIN SELECT RAISE(ABORT, 'build records are never deleted: reject the record instead'); END;
+CREATE TRIGGER "Source_no_delete" BEFORE DELETE ON "Source" BEGIN SELECT RAISE(ABORT, 'sources are never deleted'); END;
+CREATE TRIGGER "Flag_no_delete" BEFORE DELETE ON "Flag" BEGIN SELECT RAISE(ABORT, 'flags are never deleted: resolve or waive them'); END;
