@@ -1,0 +1,43 @@
+import { closeSqlite } from "../db/connection";
+import { disconnectPrisma } from "../db/client";
+import type { CliCommand, CliIo } from "./types";
+
+const HELP = `meltledger — curation workbench for LPBF build records
+
+Commands:
+  db migrate                         apply pending database migrations
+  db seed [--reset] [--if-empty]     seed the demo scenario (--reset keeps the old database file aside and starts anew)
+  records list --json [filters]      list records (--alloy, --source, --status, --outcome, --power/--speed/--hatch/--layer MIN-MAX, --limit N)
+  sources list --json                list sources
+  meltpool --power 200W --speed 800mm/s --spot 80um [--alloy 316L ...] [--json]
+                                     melt-pool size and defect criteria for one parameter set
+
+DATABASE_URL selects the database (default file:./data/meltledger.db).
+`;
+
+const COMMANDS: Record<string, () => Promise<CliCommand>> = {
+  db: async () => (await import("./commands/db")).db,
+  records: async () => (await import("./commands/records")).records,
+  sources: async () => (await import("./commands/sources")).sources,
+  meltpool: async () => (await import("./commands/meltpool")).meltpool,
+};
+
+/** Dispatches a command line; returns the exit code (0 ok, 1 failure, 2 bad usage or input). */
+export async function main(argv: string[], io: CliIo): Promise<number> {
+  const [name, ...rest] = argv;
+  if (!name || name === "--help" || name === "-h" || name === "help") {
+    io.stdout(HELP);
+    return name ? 0 : 2;
+  }
+  const load = COMMANDS[name];
+  if (!load) {
+    io.stderr(`Unknown command "${name}".\n\n${HELP}`);
+    return 2;
+  }
+  try {
+    return await (await load())(rest, io);
+  } finally {
+    await disconnectPrisma();
+    closeSqlite();
+  }
+}

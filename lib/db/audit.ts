@@ -1,0 +1,68 @@
+import type { Prisma } from "../generated/prisma/client";
+import { prismaReady } from "./client";
+
+export interface AuditInput {
+  actorId: number | null;
+  actorName: string;
+  action: string;
+  entityType: string;
+  entityId: string | number;
+  before?: unknown;
+  after?: unknown;
+  reason?: string | null;
+}
+
+type Tx = Prisma.TransactionClient;
+
+const json = (v: unknown) => (v === undefined ? null : JSON.stringify(v));
+
+/** Appends one audit event inside the caller's transaction (the table refuses updates and deletes). */
+export async function appendAudit(tx: Tx, e: AuditInput): Promise<void> {
+  await tx.auditEvent.create({
+    data: {
+      actorId: e.actorId,
+      actorName: e.actorName,
+      action: e.action,
+      entityType: e.entityType,
+      entityId: String(e.entityId),
+      before: json(e.before),
+      after: json(e.after),
+      reason: e.reason ?? null,
+    },
+  });
+}
+
+export interface AuditEventRow {
+  id: number;
+  actorName: string;
+  action: string;
+  entityType: string;
+  entityId: string;
+  before: unknown;
+  after: unknown;
+  reason: string | null;
+  at: Date;
+}
+
+function parse(text: string | null): unknown {
+  if (text === null) return null;
+  try {
+    return JSON.parse(text);
+  } catch {
+    return text;
+  }
+}
+
+/** Every event for one entity, oldest first. */
+export async function listAuditFor(entityType: string, entityId: string | number): Promise<AuditEventRow[]> {
+  const db = await prismaReady();
+  const rows = await db.auditEvent.findMany({ where: { entityType, entityId: String(entityId) }, orderBy: { id: "asc" } });
+  return rows.map((r) => ({ ...r, before: parse(r.before), after: parse(r.after) }));
+}
+
+/** The latest events across the collection, newest first. */
+export async function listRecentAudit(limit: number): Promise<AuditEventRow[]> {
+  const db = await prismaReady();
+  const rows = await db.auditEvent.findMany({ orderBy: { id: "desc" }, take: limit });
+  return rows.map((r) => ({ ...r, before: parse(r.before), after: parse(r.after) }));
+}

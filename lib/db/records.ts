@@ -1,0 +1,256 @@
+import type { Prisma } from "../generated/prisma/client";
+import type { NormalizedQuantities } from "../schemas/record";
+import type { RecordsQuery, RecordSortKey } from "../schemas/records-query";
+import { prismaReady } from "./client";
+import type { Statement } from "better-sqlite3";
+import { sqlite, type SqliteDatabase } from "./connection";
+
+type Tx = Prisma.TransactionClient;
+
+/** Everything stored for a record, in canonical units. */
+export interface RecordWrite extends Omit<NormalizedQuantities, "enteredValues"> {
+  enteredValues: NormalizedQuantities["enteredValues"];
+  sourceId: number;
+  locationPage: number | null;
+  locationLabel: string | null;
+  materialId: number;
+  alloyKey: string;
+  machine: string | null;
+  spotDefinition: string | null;
+  atmosphere: string | null;
+  scanStrategy: string | null;
+  outcome: string;
+  outcomeText: string | null;
+  status: string;
+  qualityScore: number | null;
+  importRunId?: number | null;
+  importFile?: string | null;
+  importRow?: number | null;
+}
+
+export interface RecordRow extends RecordWrite {
+  id: number;
+  version: number;
+  mergedIntoId: number | null;
+  createdById: number | null;
+  updatedById: number | null;
+  createdAt: Date;
+  updatedAt: Date;
+}
+
+/** The columns of a record that an edit may change, with the JSON column serialized. */
+function toColumns(r: RecordWrite) {
+  return {
+    sourceId: r.sourceId, locationPage: r.locationPage, locationLabel: r.locationLabel, materialId: r.materialId, alloyKey: r.alloyKey,
+    machine: r.machine, laserPowerW: r.laserPowerW, scanSpeedMmPerS: r.scanSpeedMmPerS, hatchSpacingUm: r.hatchSpacingUm,
+    layerThicknessUm: r.layerThicknessUm, spotDiameterUm: r.spotDiameterUm, spotDefinition: r.spotDefinition, preheatC: r.preheatC,
+    atmosphere: r.atmosphere, scanStrategy: r.scanStrategy, powderD10Um: r.powderD10Um, powderD50Um: r.powderD50Um,
+    powderD90Um: r.powderD90Um, outcome: r.outcome, outcomeText: r.outcomeText, relativeDensityPct: r.relativeDensityPct,
+    volumetricEnergyJMm3: r.volumetricEnergyJMm3, enteredValues: JSON.stringify(r.enteredValues), status: r.status,
+    qualityScore: r.qualityScore, importRunId: r.importRunId ?? null, importFile: r.importFile ?? null, importRow: r.importRow ?? null,
+  };
+}
+
+type DbRecord = Prisma.BuildRecordGetPayload<object>;
+
+function toRow(r: DbRecord): RecordRow {
+  let entered: RecordWrite["enteredValues"] = {};
+  try {
+    entered = JSON.parse(r.enteredValues) as RecordWrite["enteredValues"];
+  } catch {
+    entered = {};
+  }
+  return { ...r, enteredValues: entered };
+}
+
+export async function insertRecord(tx: Tx, r: RecordWrite, actorId: number | null): Promise<RecordRow> {
+  const created = await tx.buildRecord.create({ data: { ...toColumns(r), createdById: actorId, updatedById: actorId } });
+  return toRow(created);
+}
+
+export async function getRecordTx(tx: Tx, id: number): Promise<RecordRow | null> {
+  const r = await tx.buildRecord.findUnique({ where: { id } });
+  return r ? toRow(r) : null;
+}
+
+/** Writes the edit only when the stored version is the one the editor saw; null means a conflict. */
+export async function updateRecordIfVersion(tx: Tx, id: number, version: number, r: Partial<RecordWrite>, actorId: number | null): Promise<RecordRow | null> {
+  const data: Record<string, unknown> = { ...r };
+  if (r.enteredValues) data.enteredValues = JSON.stringify(r.enteredValues);
+  const { count } = await tx.buildRecord.updateMany({ where: { id, version }, data: { ...data, updatedById: actorId, version: { increment: 1 } } });
+  if (count === 0) return null;
+  return toRow(await tx.buildRecord.findUniqueOrThrow({ where: { id } }));
+}
+
+export interface RecordDetail extends RecordRow {
+  source: { id: number; title: string; year: number | null; doi: string | null; kind: string };
+  material: { id: number; designation: string; alloyKey: string; basis: string; compositionKind: string; components: { element: string; amount: number; isBalance: boolean }[] };
+}
+
+export async function getRecordDetail(id: number): Promise<RecordDetail | null> {
+  const db = await prismaReady();
+  const r = await db.buildRecord.findUnique({
+    where: { id },
+    include: {
+      source: { select: { id: true, title: true, year: true, doi: true, kind: true } },
+      material: { select: { id: true, designation: true, alloyKey: true, basis: true, compositionKind: true, components: { select: { element: true, amount: true, isBalance: true }, orderBy: { amount: "desc" } } } },
+    },
+  });
+  if (!r) return null;
+  const { source, material, ...rest } = r;
+  return { ...toRow(rest), source, material };
+}
+
+// ---------------------------------------------------------------------------------------------
+// The records table: raw SQL on the indexed columns, because a page over 100k rows must stay
+// within a few milliseconds of the bare query (see bench/).
+
+const SORT_COLUMN: Record<RecordSortKey, string> = {
+  id: "r.id", alloyKey: "r.alloyKey", sourceId: "r.sourceId", laserPowerW: "r.laserPowerW", scanSpeedMmPerS: "r.scanSpeedMmPerS",
+  hatchSpacingUm: "r.hatchSpacingUm", layerThicknessUm: "r.layerThicknessUm", spotDiameterUm: "r.spotDiameterUm",
+  volumetricEnergyJMm3: "r.volumetricEnergyJMm3", relativeDensityPct: "r.relativeDensityPct", outcome: "r.outcome",
+  status: "r.status", qualityScore: "r.qualityScore", updatedAt: "r.updatedAt",
+};
+
+export interface RecordTableRow {
+  id: number;
+  sourceId: number;
+  sourceLabel: string;
+  alloyKey: string;
+  laserPowerW: number | null;
+  scanSpeedMmPerS: number | null;
+  hatchSpacingUm: number | null;
+  layerThicknessUm: number | null;
+  spotDiameterUm: number | null;
+  volumetricEnergyJMm3: number | null;
+  relativeDensityPct: number | null;
+  outcome: string;
+  status: string;
+  qualityScore: number | null;
+  machine: string | null;
+  locationPage: number | null;
+  locationLabel: string | null;
+  importRow: number | null;
+  updatedAt: string;
+}
+
+/** Builds the WHERE clause of a records query; exported for the benchmark's bare-query baseline. */
+export function recordsWhere(q: RecordsQuery): { sql: string; params: unknown[] } {
+  const parts: string[] = [];
+  const params: unknown[] = [];
+  const inList = (column: string, values: readonly unknown[]) => {
+    if (!values.length) return;
+    parts.push(`${column} IN (${values.map(() => "?").join(",")})`);
+    params.push(...values);
+  };
+  inList("r.alloyKey", q.alloy);
+  inList("r.sourceId", q.sourceId);
+  inList("r.status", q.status);
+  inList("r.outcome", q.outcome);
+  for (const [key, range] of Object.entries(q.ranges)) {
+    if (!range) continue;
+    const column = SORT_COLUMN[key as RecordSortKey];
+    if (range.min !== null) { parts.push(`${column} >= ?`); params.push(range.min); }
+    if (range.max !== null) { parts.push(`${column} <= ?`); params.push(range.max); }
+  }
+  if (q.search) {
+    const like = `%${q.search.replace(/[%_]/g, (m) => `\\${m}`)}%`;
+    const asId = /^\d+$/.test(q.search) ? Number(q.search) : -1;
+    parts.push(`(r.id = ? OR r.alloyKey LIKE ? ESCAPE '\\' OR r.machine LIKE ? ESCAPE '\\' OR r.locationLabel LIKE ? ESCAPE '\\')`);
+    params.push(asId, like, like, like);
+  }
+  return { sql: parts.length ? `WHERE ${parts.join(" AND ")}` : "", params };
+}
+
+export function recordsOrderBy(q: RecordsQuery): string {
+  const dir = q.direction === "desc" ? "DESC" : "ASC";
+  const column = SORT_COLUMN[q.sort];
+  // NULLs last whichever way the column is sorted; id breaks ties so pages are stable.
+  return q.sort === "id" ? `ORDER BY r.id ${dir}` : `ORDER BY ${column} IS NULL, ${column} ${dir}, r.id ${dir}`;
+}
+
+const statementCache = new WeakMap<SqliteDatabase, Map<string, Statement<unknown[]>>>();
+function prepared(db: SqliteDatabase, sql: string) {
+  let m = statementCache.get(db);
+  if (!m) statementCache.set(db, (m = new Map()));
+  let s = m.get(sql);
+  if (!s) m.set(sql, (s = db.prepare(sql)));
+  return s;
+}
+
+export function listRecordsPage(q: RecordsQuery, db: SqliteDatabase = sqlite()): { rows: RecordTableRow[]; total: number } {
+  const where = recordsWhere(q);
+  const total = (prepared(db, `SELECT COUNT(*) AS n FROM BuildRecord r ${where.sql}`).get(...where.params) as { n: number }).n;
+  const rows = prepared(
+    db,
+    `SELECT r.id, r.sourceId, r.alloyKey, r.laserPowerW, r.scanSpeedMmPerS, r.hatchSpacingUm, r.layerThicknessUm, r.spotDiameterUm,
+            r.volumetricEnergyJMm3, r.relativeDensityPct, r.outcome, r.status, r.qualityScore, r.machine, r.locationPage, r.locationLabel,
+            r.importRow, r.updatedAt,
+            (SELECT COALESCE(s.year, '') || ' · ' || substr(s.title, 1, 60) FROM Source s WHERE s.id = r.sourceId) AS sourceLabel
+     FROM BuildRecord r ${where.sql} ${recordsOrderBy(q)} LIMIT ? OFFSET ?`,
+  ).all(...where.params, q.pageSize, q.page * q.pageSize) as RecordTableRow[];
+  return { rows, total };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Bulk writes: one prepared statement in one transaction (seed, imports, benchmarks).
+
+const INSERT_COLUMNS = [
+  "sourceId", "locationPage", "locationLabel", "materialId", "alloyKey", "machine", "laserPowerW", "scanSpeedMmPerS", "hatchSpacingUm",
+  "layerThicknessUm", "spotDiameterUm", "spotDefinition", "preheatC", "atmosphere", "scanStrategy", "powderD10Um", "powderD50Um",
+  "powderD90Um", "outcome", "outcomeText", "relativeDensityPct", "volumetricEnergyJMm3", "enteredValues", "status", "qualityScore",
+  "importRunId", "importFile", "importRow", "createdById", "updatedById", "createdAt", "updatedAt",
+] as const;
+
+export const RECORD_INSERT_SQL = `INSERT INTO BuildRecord (${INSERT_COLUMNS.join(", ")}) VALUES (${INSERT_COLUMNS.map(() => "?").join(", ")})`;
+
+/** Positional values for RECORD_INSERT_SQL. */
+export function recordInsertValues(r: RecordWrite, actorId: number | null, at: string): unknown[] {
+  const c = toColumns(r);
+  return [
+    c.sourceId, c.locationPage, c.locationLabel, c.materialId, c.alloyKey, c.machine, c.laserPowerW, c.scanSpeedMmPerS, c.hatchSpacingUm,
+    c.layerThicknessUm, c.spotDiameterUm, c.spotDefinition, c.preheatC, c.atmosphere, c.scanStrategy, c.powderD10Um, c.powderD50Um,
+    c.powderD90Um, c.outcome, c.outcomeText, c.relativeDensityPct, c.volumetricEnergyJMm3, c.enteredValues, c.status, c.qualityScore,
+    c.importRunId, c.importFile, c.importRow, actorId, actorId, at, at,
+  ];
+}
+
+/** Inserts rows on the raw connection; the caller owns the transaction. Returns the new ids in order. */
+export function insertRecordsRaw(db: SqliteDatabase, rows: readonly RecordWrite[], actorId: number | null, at: string): number[] {
+  const stmt = prepared(db, RECORD_INSERT_SQL);
+  const ids: number[] = new Array(rows.length);
+  for (let i = 0; i < rows.length; i++) ids[i] = Number(stmt.run(...recordInsertValues(rows[i]!, actorId, at)).lastInsertRowid);
+  return ids;
+}
+
+// ---------------------------------------------------------------------------------------------
+
+export interface CollectionStats {
+  records: number;
+  sources: number;
+  byStatus: Record<string, number>;
+  byAlloy: { alloyKey: string; count: number; byStatus: Record<string, number> }[];
+  byOutcome: Record<string, number>;
+}
+
+export function collectionStats(db: SqliteDatabase = sqlite()): CollectionStats {
+  const rows = db.prepare(`SELECT alloyKey, status, COUNT(*) AS n FROM BuildRecord GROUP BY alloyKey, status`).all() as { alloyKey: string; status: string; n: number }[];
+  const byStatus: Record<string, number> = {};
+  const alloys = new Map<string, { alloyKey: string; count: number; byStatus: Record<string, number> }>();
+  let records = 0;
+  for (const r of rows) {
+    records += r.n;
+    byStatus[r.status] = (byStatus[r.status] ?? 0) + r.n;
+    const a = alloys.get(r.alloyKey) ?? { alloyKey: r.alloyKey, count: 0, byStatus: {} };
+    a.count += r.n;
+    a.byStatus[r.status] = (a.byStatus[r.status] ?? 0) + r.n;
+    alloys.set(r.alloyKey, a);
+  }
+  const byOutcome = Object.fromEntries((db.prepare(`SELECT outcome, COUNT(*) AS n FROM BuildRecord GROUP BY outcome`).all() as { outcome: string; n: number }[]).map((r) => [r.outcome, r.n]));
+  const sources = (db.prepare(`SELECT COUNT(*) AS n FROM Source`).get() as { n: number }).n;
+  return { records, sources, byStatus, byAlloy: [...alloys.values()].sort((a, b) => b.count - a.count), byOutcome };
+}
+
+export function distinctAlloys(db: SqliteDatabase = sqlite()): string[] {
+  return (db.prepare(`SELECT DISTINCT alloyKey FROM BuildRecord ORDER BY alloyKey`).all() as { alloyKey: string }[]).map((r) => r.alloyKey);
+}
