@@ -3,7 +3,6 @@
 // 2. generates the Prisma client into lib/generated/prisma.
 import { execFileSync } from "node:child_process";
 import { createRequire } from "node:module";
-import { existsSync } from "node:fs";
 import path from "node:path";
 
 const require = createRequire(import.meta.url);

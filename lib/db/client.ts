@@ -1,6 +1,6 @@
 import { PrismaBetterSqlite3 } from "@prisma/adapter-better-sqlite3";
 import { PrismaClient } from "../generated/prisma/client";
-import { resolveDatabaseLocation } from "../server/env";
+import { resolveDatabaseLocation } from "./location";
 
 export type Db = PrismaClient;
 

@@ -1,7 +1,7 @@
 import Database from "better-sqlite3";
 import { mkdirSync } from "node:fs";
 import path from "node:path";
-import { resolveDatabaseLocation } from "../server/env";
+import { resolveDatabaseLocation } from "./location";
 
 export type SqliteDatabase = Database.Database;
 

@@ -42,7 +42,7 @@ const optionalText = (max: number) =>
     .string()
     .trim()
     .max(max, { message: `Keep this under ${max} characters.` })
-    .optional()
+    .nullish()
     .transform((v) => (v ? v : null));
 
 const checkbox = z.preprocess((v) => v === true || v === "true" || v === "on" || v === "1", z.boolean());
@@ -65,7 +65,7 @@ export const sourceInputSchema = z.object({
     .string()
     .trim()
     .max(1000)
-    .optional()
+    .nullish()
     .transform((v) => (v ? v : null))
     .refine((v) => v === null || /^https?:\/\/\S+$/i.test(v), { message: "Enter a web address starting with http:// or https://." }),
   notes: optionalText(5000),

@@ -3,7 +3,7 @@ import path from "node:path";
 import { closeSqlite, sqlite } from "../db/connection";
 import { disconnectPrisma } from "../db/client";
 import { migrate } from "../db/migrate";
-import { resolveDatabaseLocation } from "./env";
+import { resolveDatabaseLocation } from "../db/location";
 import { guard, ok, type Result } from "./result";
 
 export async function migrateDatabase(): Promise<Result<{ filePath: string; applied: string[]; alreadyApplied: string[] }>> {
