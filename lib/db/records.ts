@@ -165,8 +165,9 @@ export function recordsWhere(q: RecordsQuery): { sql: string; params: unknown[] 
 export function recordsOrderBy(q: RecordsQuery): string {
   const dir = q.direction === "desc" ? "DESC" : "ASC";
   const column = SORT_COLUMN[q.sort];
-  // NULLs last whichever way the column is sorted; id breaks ties so pages are stable.
-  return q.sort === "id" ? `ORDER BY r.id ${dir}` : `ORDER BY ${column} IS NULL, ${column} ${dir}, r.id ${dir}`;
+  // SQLite's own NULL order (first ascending, last descending) keeps the column's index usable
+  // for the sort; id breaks ties so pages are stable.
+  return q.sort === "id" ? `ORDER BY r.id ${dir}` : `ORDER BY ${column} ${dir}, r.id ${dir}`;
 }
 
 const statementCache = new WeakMap<SqliteDatabase, Map<string, Statement<unknown[]>>>();
@@ -178,18 +179,34 @@ function prepared(db: SqliteDatabase, sql: string) {
   return s;
 }
 
+/**
+ * The index (schema.prisma, last @@index of BuildRecord) that holds every filterable column.
+ * Counting through it reads a narrow index instead of the wide rows, whatever the filter; left to
+ * itself the planner sometimes picks a range index and visits every matching row instead.
+ */
+export const RECORD_FILTER_INDEX =
+  "BuildRecord_status_alloyKey_outcome_sourceId_laserPowerW_scanSpeedMmPerS_hatchSpacingUm_layerThicknessUm_spotDiameterUm_volumetricEnergyJMm3_relativeDensityPct_idx";
+
 export function listRecordsPage(q: RecordsQuery, db: SqliteDatabase = sqlite()): { rows: RecordTableRow[]; total: number } {
   const where = recordsWhere(q);
-  const total = (prepared(db, `SELECT COUNT(*) AS n FROM BuildRecord r ${where.sql}`).get(...where.params) as { n: number }).n;
+  const total = (prepared(db, `SELECT COUNT(*) AS n FROM BuildRecord r INDEXED BY ${RECORD_FILTER_INDEX} ${where.sql}`).get(...where.params) as { n: number }).n;
   const rows = prepared(
     db,
     `SELECT r.id, r.sourceId, r.alloyKey, r.laserPowerW, r.scanSpeedMmPerS, r.hatchSpacingUm, r.layerThicknessUm, r.spotDiameterUm,
             r.volumetricEnergyJMm3, r.relativeDensityPct, r.outcome, r.status, r.qualityScore, r.machine, r.locationPage, r.locationLabel,
-            r.importRow, r.updatedAt,
-            (SELECT COALESCE(s.year, '') || ' · ' || substr(s.title, 1, 60) FROM Source s WHERE s.id = r.sourceId) AS sourceLabel
+            r.importRow, r.updatedAt
      FROM BuildRecord r ${where.sql} ${recordsOrderBy(q)} LIMIT ? OFFSET ?`,
   ).all(...where.params, q.pageSize, q.page * q.pageSize) as RecordTableRow[];
+  const labels = sourceLabels(db, [...new Set(rows.map((r) => r.sourceId))]);
+  for (const r of rows) r.sourceLabel = labels.get(r.sourceId) ?? `source ${r.sourceId}`;
   return { rows, total };
+}
+
+/** Short "year · title" labels for the sources on one page. */
+function sourceLabels(db: SqliteDatabase, ids: number[]): Map<number, string> {
+  if (!ids.length) return new Map();
+  const rows = db.prepare(`SELECT id, year, title FROM Source WHERE id IN (${ids.map(() => "?").join(",")})`).all(...ids) as { id: number; year: number | null; title: string }[];
+  return new Map(rows.map((s) => [s.id, `${s.year ?? "n.d."} · ${s.title.length > 60 ? `${s.title.slice(0, 59)}…` : s.title}`]));
 }
 
 // ---------------------------------------------------------------------------------------------

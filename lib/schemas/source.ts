@@ -53,7 +53,8 @@ export const sourceInputSchema = z.object({
   title: z.string().trim().min(3, { message: "Enter the title (at least 3 characters)." }).max(500),
   authors: z
     .union([z.array(z.string()), z.string()])
-    .transform((v) => (Array.isArray(v) ? v : v.split(/;|\n/)).map((a) => a.trim()).filter(Boolean))
+    .nullish()
+    .transform((v) => (Array.isArray(v) ? v : (v ?? "").split(/;|\n/)).map((a) => a.trim()).filter(Boolean))
     .pipe(z.array(z.string().max(200)).max(200)),
   year: z.preprocess(
     (v) => (v === "" || v === null || v === undefined ? null : Number(v)),

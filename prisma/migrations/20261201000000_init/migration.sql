@@ -291,6 +291,9 @@ CREATE INDEX "BuildRecord_laserPowerW_idx" ON "BuildRecord"("laserPowerW");
 CREATE INDEX "BuildRecord_scanSpeedMmPerS_idx" ON "BuildRecord"("scanSpeedMmPerS");
 
 -- CreateIndex
+CREATE INDEX "BuildRecord_volumetricEnergyJMm3_idx" ON "BuildRecord"("volumetricEnergyJMm3");
+
+-- CreateIndex
 CREATE INDEX "BuildRecord_alloyKey_laserPowerW_scanSpeedMmPerS_idx" ON "BuildRecord"("alloyKey", "laserPowerW", "scanSpeedMmPerS");
 
 -- CreateIndex
@@ -298,6 +301,9 @@ CREATE INDEX "BuildRecord_importRunId_idx" ON "BuildRecord"("importRunId");
 
 -- CreateIndex
 CREATE INDEX "BuildRecord_updatedAt_idx" ON "BuildRecord"("updatedAt");
+
+-- CreateIndex
+CREATE INDEX "BuildRecord_status_alloyKey_outcome_sourceId_laserPowerW_scanSpeedMmPerS_hatchSpacingUm_layerThicknessUm_spotDiameterUm_volumetricEnergyJMm3_relativeDensityPct_idx" ON "BuildRecord"("status", "alloyKey", "outcome", "sourceId", "laserPowerW", "scanSpeedMmPerS", "hatchSpacingUm", "layerThicknessUm", "spotDiameterUm", "volumetricEnergyJMm3", "relativeDensityPct");
 
 -- CreateIndex
 CREATE UNIQUE INDEX "MappingPreset_name_sourceId_key" ON "MappingPreset"("name", "sourceId");
