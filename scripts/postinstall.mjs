@@ -21,7 +21,10 @@ function nativeAddonLoads() {
 if (!nativeAddonLoads()) {
   console.log("[postinstall] better-sqlite3 native addon missing: building it from source");
   const pkgDir = path.dirname(require.resolve("better-sqlite3/package.json"));
-  execFileSync("npx", ["--no-install", "node-gyp", "rebuild", "--release"], { cwd: pkgDir, stdio: "inherit" });
+  // npm tells scripts where its bundled node-gyp is; fall back to one on PATH.
+  const gyp = process.env.npm_config_node_gyp;
+  if (gyp) execFileSync(process.execPath, [gyp, "rebuild", "--release"], { cwd: pkgDir, stdio: "inherit" });
+  else execFileSync("node-gyp", ["rebuild", "--release"], { cwd: pkgDir, stdio: "inherit" });
   if (!nativeAddonLoads()) {
     console.error("[postinstall] better-sqlite3 still does not load; see the messages above");
     process.exit(1);
