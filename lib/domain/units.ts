@@ -238,6 +238,7 @@ function spellingKey(text: string): string {
  * normalizeUnit("kg");     // null
  */
 export function normalizeUnit(text: string): string | null {
+  if (Object.hasOwn(UNIT_DEFS, text)) return text; // already normalized: the common case
   const key = spellingKey(text);
   if (key === "") return null;
   return SPELLINGS[key] ?? null;
@@ -308,8 +309,8 @@ function clean(value: number): number {
 export function toCanonical(value: number, unit: string, quantity: Quantity): number {
   requireFinite("toCanonical", value);
   const { conversion: c } = requireUnit("toCanonical", unit, quantity);
-  if (c.kind === "ratio") return clean((value * c.num) / c.den);
-  return clean(value * c.scale + c.offset);
+  if (c.kind === "ratio") return c.num === c.den ? value : clean((value * c.num) / c.den);
+  return c.scale === 1 && c.offset === 0 ? value : clean(value * c.scale + c.offset);
 }
 
 /**
@@ -323,8 +324,8 @@ export function toCanonical(value: number, unit: string, quantity: Quantity): nu
 export function fromCanonical(value: number, unit: string, quantity: Quantity): number {
   requireFinite("fromCanonical", value);
   const { conversion: c } = requireUnit("fromCanonical", unit, quantity);
-  if (c.kind === "ratio") return clean((value * c.den) / c.num);
-  return clean((value - c.offset) / c.scale);
+  if (c.kind === "ratio") return c.num === c.den ? value : clean((value * c.den) / c.num);
+  return c.scale === 1 && c.offset === 0 ? value : clean((value - c.offset) / c.scale);
 }
 
 export type ParsedQuantity =
