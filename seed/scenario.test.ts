@@ -255,6 +255,11 @@ describe("generateScenario: planted problems", () => {
     expect(n).toBeLessThanOrEqual(max);
   });
 
+  test("a label conflict the wording cannot express is made up by an exact duplicate", () => {
+    // 15 exact duplicates and 10 label conflicts are intended at 3,000 records
+    expect(problems(scenario, "exact_duplicate").length + problems(scenario, "label_conflict").length).toBe(25);
+  });
+
   test("exact duplicates repeat every value in the same source", () => {
     for (const { recordKeys } of problems(scenario, "exact_duplicate")) {
       const [a, b] = recordKeys.map(record);

@@ -272,7 +272,8 @@ function apportion(total: number, shares: readonly number[]): number[] {
   const exact = shares.map((s) => (total * s) / sum);
   const parts = exact.map(Math.floor);
   const order = exact.map((x, i) => ({ i, r: x - Math.floor(x) })).sort((a, b) => b.r - a.r || a.i - b.i);
-  for (let k = 0; k < total - parts.reduce((a, b) => a + b, 0); k += 1) {
+  const remainder = total - parts.reduce((a, b) => a + b, 0);
+  for (let k = 0; k < remainder; k += 1) {
     const slot = order[k % order.length];
     if (slot) parts[slot.i] = (parts[slot.i] ?? 0) + 1;
   }

@@ -481,7 +481,8 @@ export const HARD_LIMITS: Record<Quantity, HardLimit> = {
 
 /**
  * Ranges outside which a value earns a warning, in canonical units. Common practice, from
- * memory (DOMAIN.md, "Quantities and units"); callers may pass their own ranges to checks.
+ * memory (DOMAIN.md, "Quantities and units"): defaults only, so a check that uses them should
+ * accept ranges of its own.
  */
 export const PLAUSIBLE_RANGES: Record<Quantity, { min: number; max: number }> = {
   laserPower: { min: 20, max: 1_000 },
