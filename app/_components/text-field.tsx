@@ -1,0 +1,61 @@
+import type { InputHTMLAttributes, ReactNode, TextareaHTMLAttributes } from "react";
+import { FieldError, FieldHint, FieldLabel, describedBy, fieldId } from "./field-parts";
+
+interface FieldChrome {
+  label: ReactNode;
+  name: string;
+  id?: string;
+  hint?: ReactNode;
+  error?: readonly string[] | string | null;
+  optional?: boolean;
+  className?: string;
+}
+
+export type TextFieldProps = FieldChrome & Omit<InputHTMLAttributes<HTMLInputElement>, "name" | "id" | "className">;
+
+/** A labelled text input with its hint and messages bound through aria-describedby. */
+export function TextField({ label, name, id, hint, error, optional, className, ...input }: TextFieldProps) {
+  const inputId = id ?? fieldId(name);
+  const invalid = Boolean(error && error.length);
+  return (
+    <div className={["field", className].filter(Boolean).join(" ")}>
+      <FieldLabel htmlFor={inputId} optional={optional}>
+        {label}
+      </FieldLabel>
+      <input
+        className="input"
+        id={inputId}
+        name={name}
+        aria-invalid={invalid || undefined}
+        aria-describedby={describedBy(inputId, { hint, error: invalid })}
+        {...input}
+      />
+      <FieldHint id={inputId}>{hint}</FieldHint>
+      <FieldError id={inputId} messages={error} />
+    </div>
+  );
+}
+
+export type TextAreaFieldProps = FieldChrome & Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, "name" | "id" | "className">;
+
+export function TextAreaField({ label, name, id, hint, error, optional, className, ...input }: TextAreaFieldProps) {
+  const inputId = id ?? fieldId(name);
+  const invalid = Boolean(error && error.length);
+  return (
+    <div className={["field", className].filter(Boolean).join(" ")}>
+      <FieldLabel htmlFor={inputId} optional={optional}>
+        {label}
+      </FieldLabel>
+      <textarea
+        className="textarea"
+        id={inputId}
+        name={name}
+        aria-invalid={invalid || undefined}
+        aria-describedby={describedBy(inputId, { hint, error: invalid })}
+        {...input}
+      />
+      <FieldHint id={inputId}>{hint}</FieldHint>
+      <FieldError id={inputId} messages={error} />
+    </div>
+  );
+}

@@ -1,0 +1,28 @@
+"use server";
+
+import { redirect } from "next/navigation";
+import { localActor } from "@/lib/server/actor";
+import { createRecord, rejectRecord, updateRecord } from "@/lib/server/records";
+import type { FormState } from "../_components/form-result";
+
+/** Saves a new record (input in the record form's shape); on success opens its page. */
+export async function createRecordAction(input: unknown): Promise<FormState> {
+  const result = await createRecord(input, await localActor());
+  if (!result.ok) return { error: result.error };
+  redirect(`/records/${result.data.id}?saved=created`);
+}
+
+/** Saves an edit when nobody saved the record first; on success opens its page. */
+export async function updateRecordAction(input: unknown): Promise<FormState> {
+  const result = await updateRecord(input, await localActor());
+  if (!result.ok) return { error: result.error };
+  redirect(`/records/${result.data.id}?saved=updated`);
+}
+
+/** Rejects a record with a reason (there is no delete); on success reloads its page. */
+export async function rejectRecordAction(formData: FormData): Promise<FormState> {
+  const input = { id: formData.get("id"), version: formData.get("version"), reason: formData.get("reason") ?? "" };
+  const result = await rejectRecord(input, await localActor());
+  if (!result.ok) return { error: result.error };
+  redirect(`/records/${result.data.id}?saved=rejected`);
+}

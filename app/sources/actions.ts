@@ -1,0 +1,23 @@
+"use server";
+
+import { redirect } from "next/navigation";
+import { localActor } from "@/lib/server/actor";
+import { createSource, updateSource } from "@/lib/server/sources";
+import type { FormState } from "../_components/form-result";
+import { sourceInputFromFormData } from "./_lib/source-form-data";
+
+/** Creates a source from the form; on success goes to its page. */
+export async function createSourceAction(formData: FormData): Promise<FormState> {
+  const input = sourceInputFromFormData(formData);
+  const result = await createSource(input, await localActor(), { allowSameTitle: formData.get("allowSameTitle") === "on" });
+  if (!result.ok) return { error: result.error };
+  redirect(`/sources/${result.data.id}?saved=created`);
+}
+
+/** Saves an edit when the version still matches; on success reloads the source page. */
+export async function updateSourceAction(formData: FormData): Promise<FormState> {
+  const input = sourceInputFromFormData(formData);
+  const result = await updateSource(input, await localActor());
+  if (!result.ok) return { error: result.error };
+  redirect(`/sources/${result.data.id}?saved=updated`);
+}
