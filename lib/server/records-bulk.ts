@@ -1,6 +1,6 @@
 import { appendAuditRaw } from "../db/audit-raw";
-import { sqlite } from "../db/connection";
-import { findOrCreateMaterialRaw } from "../db/materials";
+import { sqlite, type SqliteDatabase } from "../db/connection";
+import { findOrCreateMaterialRaw, type MaterialSpec } from "../db/materials";
 import { insertRecordsRaw, type RecordWrite } from "../db/records";
 import { recordInputSchema } from "../schemas/record";
 import { requireRole, type Actor } from "./actor";
@@ -36,6 +36,48 @@ export interface BulkResult {
 
 const iso = (d: Date) => d.toISOString().replace("Z", "+00:00");
 
+/** One validated, normalized input, ready to write. */
+export interface PreparedBulkRow {
+  /** 1-based row number the caller gave (input position, or the row in an imported file). */
+  row: number;
+  write: Omit<RecordWrite, "materialId">;
+  material: MaterialSpec;
+}
+
+/**
+ * Validates and normalizes one input with the record schema; problems come back as row errors
+ * (field = the top-level record field).
+ */
+export function prepareBulkRow(input: unknown, row: number): { ok: true; prepared: PreparedBulkRow } | { ok: false; errors: RowError[] } {
+  const parsed = recordInputSchema.safeParse(input);
+  if (!parsed.success) {
+    return { ok: false, errors: parsed.error.issues.map((issue) => ({ row, field: issue.path.length ? String(issue.path[0]) : "_row", message: issue.message })) };
+  }
+  const prepared = prepareRecord(parsed.data);
+  if (!prepared.ok) {
+    const errors: RowError[] = [];
+    for (const [field, messages] of Object.entries(prepared.fieldErrors)) for (const message of messages) errors.push({ row, field, message });
+    return { ok: false, errors };
+  }
+  return { ok: true, prepared: { row, write: prepared.write, material: prepared.material } };
+}
+
+export interface WritePreparedOptions {
+  importFile?: string | null;
+  importRunId?: number | null;
+  /** Shared across calls of one batch so each material is looked up once. */
+  materials: Map<string, number>;
+}
+
+/**
+ * Writes prepared rows on the raw connection; the caller holds the transaction and has checked
+ * that the sources exist. With an import file, each record remembers its row. Returns ids in order.
+ */
+export function writePreparedRows(db: SqliteDatabase, rows: readonly PreparedBulkRow[], actorId: number | null, at: string, options: WritePreparedOptions): number[] {
+  const full: RecordWrite[] = rows.map((w) => ({ ...w.write, materialId: findOrCreateMaterialRaw(db, w.material, options.materials), importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, importRow: options.importFile ? w.row : null }));
+  return insertRecordsRaw(db, full, actorId, at);
+}
+
 /**
  * Validates and normalizes many records, then writes them in one transaction: all rows or none.
  * Rows with errors refuse the batch (listing every row, field and message) unless
@@ -45,19 +87,11 @@ export async function insertRecordsBulk(inputs: readonly unknown[], actor: Actor
   return guard(async () => {
     requireRole(actor, "contributor");
     const errors: RowError[] = [];
-    const writes: { row: number; write: Omit<RecordWrite, "materialId">; material: Parameters<typeof findOrCreateMaterialRaw>[1] }[] = [];
+    const writes: PreparedBulkRow[] = [];
     for (let i = 0; i < inputs.length; i++) {
-      const parsed = recordInputSchema.safeParse(inputs[i]);
-      if (!parsed.success) {
-        for (const issue of parsed.error.issues) errors.push({ row: i + 1, field: issue.path.length ? String(issue.path[0]) : "_row", message: issue.message });
-        continue;
-      }
-      const prepared = prepareRecord(parsed.data);
-      if (!prepared.ok) {
-        for (const [field, messages] of Object.entries(prepared.fieldErrors)) for (const message of messages) errors.push({ row: i + 1, field, message });
-        continue;
-      }
-      writes.push({ row: i + 1, write: prepared.write, material: prepared.material });
+      const r = prepareBulkRow(inputs[i], i + 1);
+      if (r.ok) writes.push(r.prepared);
+      else errors.push(...r.errors);
     }
     if (errors.length && !options.excludeErrors) {
       const rowsWithErrors = new Set(errors.map((e) => e.row)).size;
@@ -71,15 +105,15 @@ export async function insertRecordsBulk(inputs: readonly unknown[], actor: Actor
         if (!db.prepare(`SELECT 1 FROM Source WHERE id = ?`).get(id)) return { missingSource: id };
       }
       const materials = new Map<string, number>();
-      const full: RecordWrite[] = writes.map((w) => ({ ...w.write, materialId: findOrCreateMaterialRaw(db, w.material, materials), importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, importRow: options.importFile ? w.row : null }));
+      const writeOptions = { importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, materials };
       let ids: number[];
       if (options.rowMeta) {
-        ids = full.map((r, i) => {
-          const meta = options.rowMeta!(writes[i]!.row - 1);
-          return insertRecordsRaw(db, [r], meta.actorId, iso(meta.at))[0]!;
+        ids = writes.map((w) => {
+          const meta = options.rowMeta!(w.row - 1);
+          return writePreparedRows(db, [w], meta.actorId, iso(meta.at), writeOptions)[0]!;
         });
       } else {
-        ids = insertRecordsRaw(db, full, actor.id, iso(now()));
+        ids = writePreparedRows(db, writes, actor.id, iso(now()), writeOptions);
       }
       appendAuditRaw(db, {
         actorId: actor.id,
