@@ -11,6 +11,16 @@ export interface FieldChange {
   after: string;
 }
 
+import { outcomeText, spotDefinitionShort, statusLabel } from "./labels";
+
+/** Stored ids shown by their labels. */
+const VALUE_LABEL: Record<string, (v: string) => string> = {
+  status: statusLabel,
+  outcome: outcomeText,
+  spotDefinition: spotDefinitionShort,
+  spotSizeDefinition: spotDefinitionShort,
+};
+
 /** Bookkeeping columns that change on every save and say nothing to a reader. */
 const SKIPPED = new Set(["id", "version", "titleKey", "createdAt", "updatedAt", "createdById", "updatedById"]);
 
@@ -100,7 +110,7 @@ function isEntered(v: unknown): v is { text: unknown; unit?: unknown; provenance
 export function formatAuditValue(v: unknown): string {
   if (v === null || v === undefined || v === "") return "—";
   if (typeof v === "boolean") return v ? "yes" : "no";
-  if (typeof v === "number") return Number.isFinite(v) ? v.toLocaleString("en-US", { maximumFractionDigits: 6 }) : String(v);
+  if (typeof v === "number") return Number.isFinite(v) ? v.toLocaleString("en-US", { maximumFractionDigits: 4 }) : String(v);
   if (typeof v === "string") return v;
   if (Array.isArray(v)) return v.length ? v.map(formatAuditValue).join("; ") : "—";
   if (isEntered(v)) {
@@ -130,8 +140,10 @@ export function diffSnapshots(before: unknown, after: unknown): FieldChange[] {
   const keys = [...new Set([...a.keys(), ...b.keys()])];
   const changes: FieldChange[] = [];
   for (const key of keys) {
-    const x = formatAuditValue(a.get(key));
-    const y = formatAuditValue(b.get(key));
+    const label = VALUE_LABEL[key];
+    const show = (v: unknown) => (label && typeof v === "string" ? label(v) : formatAuditValue(v));
+    const x = show(a.get(key));
+    const y = show(b.get(key));
     if (x !== y) changes.push({ key, label: fieldLabel(key), before: x, after: y });
   }
   return changes;

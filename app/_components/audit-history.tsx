@@ -6,6 +6,9 @@ export interface HistoryEvent {
   id: number;
   actorName: string;
   action: string;
+  /** "record_batch" events (imports, the demo seed) cover many records and are summarized. */
+  entityType?: string;
+  entityId?: string;
   before: unknown;
   after: unknown;
   reason: string | null;
@@ -20,6 +23,7 @@ const ACTION_LABEL: Record<string, string> = {
   merge: "Merged",
   import: "Imported",
   bulk_create: "Created in a batch",
+  seed: "Created by the demo seed",
 };
 
 function actionLabel(action: string): string {
@@ -33,7 +37,8 @@ export function AuditHistory({ events, headingLevel = 3 }: { events: readonly Hi
   return (
     <ol className="history">
       {events.map((e) => {
-        const changes = diffSnapshots(e.before, e.after);
+        const batch = e.entityType === "record_batch";
+        const changes = batch ? [] : diffSnapshots(e.before, e.after);
         const isCreate = e.before === null || e.before === undefined;
         return (
           <li className="history__event" key={e.id}>
@@ -50,6 +55,7 @@ export function AuditHistory({ events, headingLevel = 3 }: { events: readonly Hi
                 <span className="muted">Reason:</span> {e.reason}
               </p>
             ) : null}
+            {batch ? <p className="history__reason">{batchSummary(e)}</p> : null}
             {changes.length === 0 ? null : isCreate ? (
               <details style={{ marginTop: "0.3rem" }}>
                 <summary className="muted" style={{ cursor: "pointer", fontSize: "0.88rem" }}>
@@ -67,6 +73,13 @@ export function AuditHistory({ events, headingLevel = 3 }: { events: readonly Hi
   );
 }
 
+function batchSummary(e: HistoryEvent): string {
+  const after = (e.after ?? {}) as { count?: unknown; importFile?: unknown };
+  const count = typeof after.count === "number" ? after.count.toLocaleString("en-US") : "several";
+  const file = typeof after.importFile === "string" && after.importFile ? ` from ${after.importFile}` : "";
+  return `Created with ${count} records in one batch${file} (records ${(e.entityId ?? "").replace("-", "–")}).`;
+}
+
 function ChangeTable({ changes, showBefore }: { changes: ReturnType<typeof diffSnapshots>; showBefore: boolean }) {
   return (
     <table className="diff">
@@ -82,13 +95,13 @@ function ChangeTable({ changes, showBefore }: { changes: ReturnType<typeof diffS
         {changes.map((c) => (
           <tr key={c.key}>
             <th scope="row">{c.label}</th>
-            {showBefore ? <td className="diff__before">{c.before}</td> : null}
+            {showBefore ? <td className={c.before.length > 24 ? "diff__before diff__long" : "diff__before"}>{c.before}</td> : null}
             {showBefore ? (
               <td className="diff__arrow" aria-label="changed to">
                 →
               </td>
             ) : null}
-            <td className={showBefore ? "diff__after" : undefined}>{c.after}</td>
+            <td className={showBefore ? (c.after.length > 24 ? "diff__after diff__long" : "diff__after") : undefined}>{c.after}</td>
           </tr>
         ))}
       </tbody>

@@ -1,10 +1,7 @@
-import { isOutcome, outcomeLabel } from "@/lib/domain/outcomes";
+import { outcomeText } from "./labels";
 import { outcomeColour } from "./palette";
 
-/** Display text of a stored outcome value; a value outside the vocabulary is shown as stored. */
-export function outcomeText(outcome: string): string {
-  return isOutcome(outcome) ? outcomeLabel(outcome) : outcome;
-}
+export { outcomeText };
 
 /** An outcome as a colour swatch plus its name (the name carries the meaning). */
 export function OutcomeLabel({ outcome }: { outcome: string }) {

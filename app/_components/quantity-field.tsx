@@ -22,13 +22,15 @@ export interface QuantityFieldProps {
   optional?: boolean;
   required?: boolean;
   className?: string;
+  /** Rendered at the end of the line under the input (e.g. a provenance choice). */
+  aside?: ReactNode;
 }
 
 /**
  * A number typed as text (so "0,8" or "1e3" reach the parser as written) with the unit as a
  * suffix select. The select has its own accessible name ("… unit") and follows the input in tab order.
  */
-export function QuantityField({ label, name, value, unit, units, onValueChange, onUnitChange, canonical, hint, error, optional, required, className }: QuantityFieldProps) {
+export function QuantityField({ label, name, value, unit, units, onValueChange, onUnitChange, canonical, hint, error, optional, required, className, aside }: QuantityFieldProps) {
   const id = fieldId(`${name}.value`);
   const unitId = fieldId(`${name}.unit`);
   const invalid = Boolean(error && error.length);
@@ -60,9 +62,12 @@ export function QuantityField({ label, name, value, unit, units, onValueChange, 
           ))}
         </select>
       </div>
-      <span className="field__canonical" id={canonicalId} aria-live="polite">
-        {canonical}
-      </span>
+      <div className="field__under">
+        <span className="field__canonical" id={canonicalId} aria-live="polite">
+          {canonical}
+        </span>
+        {aside}
+      </div>
       <FieldHint id={id}>{hint}</FieldHint>
       <FieldError id={id} messages={error} />
     </div>

@@ -1,18 +1,8 @@
 import type { ReactNode } from "react";
+import { statusLabel } from "./labels";
 import { SEVERITY_COLOURS, statusColours } from "./palette";
 
-const STATUS_LABEL: Record<string, string> = {
-  draft: "Draft",
-  needs_review: "Needs review",
-  accepted: "Accepted",
-  rejected: "Rejected",
-  merged: "Merged",
-};
-
-/** Label of a record status; an unknown status is shown as stored. */
-export function statusLabel(status: string): string {
-  return STATUS_LABEL[status] ?? status;
-}
+export { statusLabel };
 
 /** A distinct shape per status so the badge reads without colour. */
 function StatusIcon({ status }: { status: string }) {

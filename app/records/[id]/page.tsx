@@ -3,12 +3,13 @@ import { notFound } from "next/navigation";
 import { energyDensities } from "@/lib/domain/energy-density";
 import { CANONICAL_UNIT } from "@/lib/domain/units";
 import { RECORD_QUANTITY_FIELD_NAMES, RECORD_QUANTITY_FIELDS, canonicalKeyOf } from "@/lib/schemas/record";
-import { getRecordPage } from "@/lib/server/records";
+import { getRecordWithHistory } from "@/lib/server/record-history";
 import { Alert } from "../../_components/alert";
 import { AuditHistory } from "../../_components/audit-history";
 import { fieldLabel } from "../../_components/audit-diff";
 import { ButtonLink } from "../../_components/button";
 import { formatDateTime, formatNumber, formatSignificant, plural } from "../../_components/format";
+import { spotDefinitionShort } from "../../_components/labels";
 import { LoadError } from "../../_components/load-error";
 import { OutcomeLabel } from "../../_components/outcome-label";
 import { PageHeader } from "../../_components/page-header";
@@ -26,12 +27,11 @@ export async function generateMetadata({ params }: Props) {
 }
 
 const SAVED: Record<string, string> = { created: "Record saved", updated: "Changes saved", rejected: "Record rejected" };
-const SPOT_DEFINITION: Record<string, string> = { one_over_e2: "1/e²", d4sigma: "D4σ", fwhm: "FWHM" };
 const PROVENANCE: Record<string, string> = { reported: "Reported", derived: "Derived", assumed: "Assumed default" };
 
 export default async function RecordPage({ params, searchParams }: Props) {
   const [{ id }, { saved }] = await Promise.all([params, searchParams]);
-  const result = await getRecordPage(Number(id));
+  const result = await getRecordWithHistory(Number(id));
   if (!result.ok) {
     if (result.error.code === "not_found") notFound();
     return <LoadError error={result.error} what={`record ${id}`} />;
@@ -96,7 +96,7 @@ export default async function RecordPage({ params, searchParams }: Props) {
                       <tr key={field}>
                         <th scope="row" style={{ fontWeight: 500 }}>
                           {name}
-                          {field === "spotDiameter" && r.spotDefinition ? <span className="muted"> ({SPOT_DEFINITION[r.spotDefinition] ?? r.spotDefinition} in the source)</span> : null}
+                          {field === "spotDiameter" && r.spotDefinition ? <span className="muted"> ({spotDefinitionShort(r.spotDefinition)} in the source)</span> : null}
                         </th>
                         <td className="entered">{entered ? `${entered.text} ${entered.unit}`.trim() : "—"}</td>
                         <td>{entered ? (PROVENANCE[entered.provenance] ?? entered.provenance) : "—"}</td>
@@ -110,6 +110,7 @@ export default async function RecordPage({ params, searchParams }: Props) {
             </div>
           </section>
 
+          <div className="pair">
           <section className="panel" aria-labelledby="derived">
             <div className="panel__title">
               <h2 id="derived">Derived energy densities</h2>
@@ -123,48 +124,6 @@ export default async function RecordPage({ params, searchParams }: Props) {
               <dt>Volumetric, E_v = P/(v·h·t)</dt>
               <dd className="num">{energy.volumetricJPerMm3 === null ? "— (needs P, v, h and t)" : `${formatSignificant(energy.volumetricJPerMm3)} J/mm³`}</dd>
             </dl>
-          </section>
-
-          <section className="panel" aria-labelledby="material">
-            <div className="panel__title">
-              <h2 id="material">Material</h2>
-              <span className="muted">{r.material.compositionKind === "measured" ? "measured composition" : "nominal composition"}, {r.material.basis === "at" ? "at%" : "wt%"}</span>
-            </div>
-            <dl className="definition-list" style={{ marginBottom: "0.75rem" }}>
-              <dt>As written</dt>
-              <dd>{r.material.designation}</dd>
-              <dt>Alloy key</dt>
-              <dd>
-                <Link href={`/records?alloy=${encodeURIComponent(r.alloyKey)}`}>{r.alloyKey}</Link>
-              </dd>
-            </dl>
-            {r.material.components.length ? (
-              <div className="table-wrap" style={{ maxWidth: 420 }}>
-                <table className="table">
-                  <thead>
-                    <tr>
-                      <th scope="col">Element</th>
-                      <th scope="col" className="num">
-                        {r.material.basis === "at" ? "at%" : "wt%"}
-                      </th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {r.material.components.map((c) => (
-                      <tr key={c.element}>
-                        <td>{c.element}</td>
-                        <td className="num">
-                          {formatNumber(c.amount, 3)}
-                          {c.isBalance ? " (balance)" : ""}
-                        </td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              </div>
-            ) : (
-              <p className="muted">No composition: the alloy is not a grade in the library and was not given as a designation.</p>
-            )}
           </section>
 
           <section className="panel" aria-labelledby="process">
@@ -188,6 +147,49 @@ export default async function RecordPage({ params, searchParams }: Props) {
               <dd>{r.scanStrategy ?? "—"}</dd>
             </dl>
           </section>
+          </div>
+          <section className="panel" aria-labelledby="material">
+            <div className="panel__title">
+              <h2 id="material">Material</h2>
+              <span className="muted">{r.material.compositionKind === "measured" ? "measured composition" : "nominal composition"}, {r.material.basis === "at" ? "at%" : "wt%"}</span>
+            </div>
+            <dl className="definition-list" style={{ marginBottom: "0.75rem" }}>
+              <dt>As written</dt>
+              <dd>{r.material.designation}</dd>
+              <dt>Alloy key</dt>
+              <dd>
+                <Link href={`/records?alloy=${encodeURIComponent(r.alloyKey)}`}>{r.alloyKey}</Link>
+              </dd>
+            </dl>
+            {r.material.components.length ? (
+              <div className="table-wrap">
+                <table className="table">
+                  <caption className="visually-hidden">Composition in {r.material.basis === "at" ? "at%" : "wt%"}</caption>
+                  <tbody>
+                    <tr>
+                      <th scope="row">Element</th>
+                      {r.material.components.map((c) => (
+                        <th scope="col" key={c.element} className="num">
+                          {c.element}
+                        </th>
+                      ))}
+                    </tr>
+                    <tr>
+                      <th scope="row">{r.material.basis === "at" ? "at%" : "wt%"}</th>
+                      {r.material.components.map((c) => (
+                        <td key={c.element} className="num">
+                          {c.isBalance ? <abbr title={`balance: ${formatNumber(c.amount, 3)}`}>bal.</abbr> : formatNumber(c.amount, 3)}
+                        </td>
+                      ))}
+                    </tr>
+                  </tbody>
+                </table>
+              </div>
+            ) : (
+              <p className="muted">No composition: the alloy is not a grade in the library and was not given as a designation.</p>
+            )}
+          </section>
+
         </div>
 
         <div>

@@ -208,8 +208,8 @@ export function RecordForm({ mode, initial, sources, recordId, version, action, 
           error={errorsFor(`${field}.value`) ?? errorsFor(field)}
           optional={!opts.required}
           required={opts.required}
-        />
-        <div style={{ display: "flex", alignItems: "center", gap: "0.4rem", marginTop: "0.2rem" }}>
+          aside={
+        <span className="field__aside">
           <label htmlFor={provenanceId} className="field__hint">
             Provenance
           </label>
@@ -227,7 +227,9 @@ export function RecordForm({ mode, initial, sources, recordId, version, action, 
               </option>
             ))}
           </select>
-        </div>
+        </span>
+          }
+        />
       </div>
     );
   }
@@ -247,7 +249,7 @@ export function RecordForm({ mode, initial, sources, recordId, version, action, 
                 <p className="alert__title">Someone saved this record after you opened it</p>
                 <p>{serverState.error.message}</p>
                 <p>
-                  Everything you typed is still in the form. <a href={`/records/${recordId}`} target="_blank" rel="noreferrer">Open the saved version in a new tab</a> to compare, then reload this page and apply your changes again.
+                  Everything you typed is still in the form. <a href={`/records/${recordId}`} target="_blank" rel="noreferrer">Open the saved version in a new tab</a> to compare.
                 </p>
               </>
             ) : (
@@ -437,10 +439,8 @@ export function RecordForm({ mode, initial, sources, recordId, version, action, 
 function Derived({ name, formula, value, unit }: { name: string; formula: string; value: number | null; unit: string }) {
   return (
     <div className="derived-value">
-      <span>
-        <span className="derived-value__name">{name}</span>
-        <br />
-        <span className="field__hint mono">{formula}</span>
+      <span className="derived-value__name">
+        {name} <span className="mono">= {formula}</span>
       </span>
       <span className="derived-value__number">
         {value === null ? "—" : formatSignificant(value, 3)} <span className="muted" style={{ fontSize: "0.85rem", fontWeight: 400 }}>{unit}</span>
