@@ -1,0 +1,269 @@
+/**
+ * Duplicate detection (DOMAIN.md, "Duplicates"):
+ * - exact: same source and the same canonical values, each rounded to the precision it was entered
+ *   with (so 0.1 mm and 100 µm agree, and conversion noise does not count);
+ * - near: same alloy (each element within a tolerance) and every process value within tolerance,
+ *   with the same result — republished data, double entry, fill-down errors;
+ * - label conflict: the same process values (within tolerance) with different outcomes, or
+ *   relative densities further apart than replicate specimens would be.
+ * Same parameters with the same outcome but a moderately different density are replicate
+ * specimens, not duplicates, and are not reported.
+ *
+ * Blocking on the alloy and a quantised (P, v) grid keeps the work near-linear: each record looks
+ * only at the grid cells its tolerance box covers, never at all pairs.
+ */
+import { settingOf, type CheckSettings } from "./check-settings";
+import { CHECKED_FIELDS } from "./checks/fields";
+import type { CheckRecord } from "./checks/types";
+
+export type PairKind = "exact" | "near" | "label_conflict";
+
+export interface DuplicateTolerances {
+  powerRelPct: number;
+  powerAbsW: number;
+  speedRelPct: number;
+  hatchAbsUm: number;
+  layerAbsUm: number;
+  spotAbsUm: number;
+  compositionWtPct: number;
+  /** Densities within this many points are the same result. */
+  densitySamePct: number;
+  /** Densities further apart than this on the same parameters conflict. */
+  densityConflictPct: number;
+}
+
+/** A pair of records; `a` is the smaller id. */
+export interface DuplicatePair {
+  a: number;
+  b: number;
+  kind: PairKind;
+}
+
+/**
+ * The tolerances a settings version holds.
+ *
+ * @example
+ * tolerancesFrom(defaultCheckSettings()).powerAbsW; // 2
+ */
+export function tolerancesFrom(settings: CheckSettings): DuplicateTolerances {
+  return {
+    powerRelPct: settingOf(settings, "duplicates.power.relPct"),
+    powerAbsW: settingOf(settings, "duplicates.power.absW"),
+    speedRelPct: settingOf(settings, "duplicates.speed.relPct"),
+    hatchAbsUm: settingOf(settings, "duplicates.hatch.absUm"),
+    layerAbsUm: settingOf(settings, "duplicates.layer.absUm"),
+    spotAbsUm: settingOf(settings, "duplicates.spot.absUm"),
+    compositionWtPct: settingOf(settings, "duplicates.composition.wtPct"),
+    densitySamePct: settingOf(settings, "duplicates.density.samePct"),
+    densityConflictPct: settingOf(settings, "duplicates.density.conflictPct"),
+  };
+}
+
+function significantDigits(text: string): number | null {
+  const mantissa = text.trim().replace(/^[+\-\u2212]/, "").replace(/[eE].*$/, "").replace(/[^\d.,]/g, "");
+  const digits = mantissa.replace(/[.,]/g, "").replace(/^0+/, "");
+  if (digits === "") return null;
+  return Math.min(15, Math.max(1, digits.length));
+}
+
+function rounded(value: number | null, text: string | undefined): string {
+  if (value === null || !Number.isFinite(value)) return "";
+  const digits = (text !== undefined ? significantDigits(text) : null) ?? 12;
+  return String(Number(value.toPrecision(digits)));
+}
+
+/**
+ * The exact-duplicate key of a record: source, alloy, composition, every canonical value rounded
+ * to the significant digits it was entered with, outcome, machine, atmosphere. Equal keys mean an
+ * exact duplicate.
+ *
+ * @example
+ * exactKeyOf(a) === exactKeyOf(b); // true when b repeats a row of the same source
+ */
+export function exactKeyOf(r: CheckRecord): string {
+  const parts: string[] = [String(r.sourceId), r.alloyKey, compositionSignature(r.components)];
+  for (const info of CHECKED_FIELDS) parts.push(rounded(r[info.key], r.entered[info.field]?.text));
+  parts.push(r.outcome, r.machine ?? "", r.atmosphere ?? "", r.spotDefinition ?? "");
+  return parts.join("|");
+}
+
+const signatureCache = new WeakMap<object, string>();
+function compositionSignature(components: CheckRecord["components"]): string {
+  const cached = signatureCache.get(components);
+  if (cached !== undefined) return cached;
+  const s = [...components]
+    .sort((x, y) => (x.element < y.element ? -1 : x.element > y.element ? 1 : 0))
+    .map((c) => `${c.element}${Number(c.amount.toPrecision(6))}`)
+    .join(",");
+  signatureCache.set(components, s);
+  return s;
+}
+
+function close(a: number | null, b: number | null, abs: number, rel: number): boolean {
+  if (a === null || b === null) return a === b;
+  return Math.abs(a - b) <= Math.max(abs, rel * Math.max(Math.abs(a), Math.abs(b))) + 1e-9;
+}
+
+function sameComposition(x: CheckRecord["components"], y: CheckRecord["components"], tolerance: number): boolean {
+  if (x === y || x.length === 0 || y.length === 0) return true;
+  const amounts = new Map<string, number>();
+  for (const c of x) amounts.set(c.element, c.amount);
+  for (const c of y) {
+    if (Math.abs((amounts.get(c.element) ?? 0) - c.amount) > tolerance + 1e-9) return false;
+    amounts.delete(c.element);
+  }
+  for (const rest of amounts.values()) if (Math.abs(rest) > tolerance + 1e-9) return false;
+  return true;
+}
+
+function knownOutcome(outcome: string): boolean {
+  return outcome !== "unknown" && outcome !== "";
+}
+
+/** Whether the process values of two records agree within the tolerances (alloy not compared). */
+function sameProcess(x: CheckRecord, y: CheckRecord, t: DuplicateTolerances): boolean {
+  if (x.laserPowerW === null || y.laserPowerW === null || x.scanSpeedMmPerS === null || y.scanSpeedMmPerS === null) return false;
+  return (
+    close(x.laserPowerW, y.laserPowerW, t.powerAbsW, t.powerRelPct / 100) &&
+    close(x.scanSpeedMmPerS, y.scanSpeedMmPerS, 0, t.speedRelPct / 100) &&
+    close(x.hatchSpacingUm, y.hatchSpacingUm, t.hatchAbsUm, 0) &&
+    close(x.layerThicknessUm, y.layerThicknessUm, t.layerAbsUm, 0) &&
+    close(x.spotDiameterUm, y.spotDiameterUm, t.spotAbsUm, 0)
+  );
+}
+
+/**
+ * What two records are to each other: an exact duplicate, a near duplicate, a label conflict, or
+ * nothing (null). Exact keys may be passed in when already computed.
+ *
+ * @example
+ * classifyPair(row, { ...row, id: 2 }, tolerances); // "exact"
+ * classifyPair(row, { ...row, id: 2, sourceId: 9 }, tolerances); // "near" (republished elsewhere)
+ * classifyPair(row, { ...row, id: 2, outcome: "keyhole" }, tolerances); // "label_conflict"
+ */
+export function classifyPair(x: CheckRecord, y: CheckRecord, t: DuplicateTolerances, keys?: { x: string; y: string }): PairKind | null {
+  const kx = keys?.x ?? exactKeyOf(x);
+  const ky = keys?.y ?? exactKeyOf(y);
+  if (kx === ky) return "exact";
+  if (x.alloyKey !== y.alloyKey || !sameProcess(x, y, t) || !sameComposition(x.components, y.components, t.compositionWtPct)) return null;
+  const bothKnown = knownOutcome(x.outcome) && knownOutcome(y.outcome);
+  if (bothKnown && x.outcome !== y.outcome) return "label_conflict";
+  const dx = x.relativeDensityPct;
+  const dy = y.relativeDensityPct;
+  if (dx !== null && dy !== null && Math.abs(dx - dy) > t.densityConflictPct + 1e-9) return "label_conflict";
+  const sameDensity = dx === null || dy === null ? dx === dy : Math.abs(dx - dy) <= t.densitySamePct + 1e-9;
+  return x.outcome === y.outcome && sameDensity ? "near" : null;
+}
+
+export interface FindDuplicatesOptions {
+  /** Pairs a reviewer marked distinct; never reported again. */
+  isDistinct?: (a: number, b: number) => boolean;
+}
+
+const MIN_CELL = 1e-6;
+
+/**
+ * Every exact, near and label-conflict pair among the records, each once with a < b, sorted by
+ * (b, a). Blocking: records with P and v are put in cells of an (alloy, ln P, ln v) grid whose cell
+ * size is the relative tolerance; each record compares itself only with the records in the cells
+ * its tolerance box covers. Records without P or v can only be exact duplicates (found by key).
+ *
+ * @example
+ * findDuplicatePairs([r1, r2, r3], tolerancesFrom(defaultCheckSettings()));
+ * // [{ a: 1, b: 3, kind: "exact" }]
+ */
+export function findDuplicatePairs(records: readonly CheckRecord[], t: DuplicateTolerances, options: FindDuplicatesOptions = {}): DuplicatePair[] {
+  const isDistinct = options.isDistinct ?? (() => false);
+  const keys = records.map(exactKeyOf);
+  const pairs: DuplicatePair[] = [];
+  const push = (i: number, j: number, kind: PairKind) => {
+    const a = Math.min(records[i]!.id, records[j]!.id);
+    const b = Math.max(records[i]!.id, records[j]!.id);
+    if (!isDistinct(a, b)) pairs.push({ a, b, kind });
+  };
+
+  // Records without P or v: exact duplicates only, by key.
+  const byKey = new Map<string, number[]>();
+  const powerRel = t.powerRelPct / 100;
+  const speedRel = t.speedRelPct / 100;
+  const wP = Math.max(Math.log1p(powerRel), MIN_CELL);
+  const wV = Math.max(Math.log1p(speedRel), MIN_CELL);
+  const grid = new Map<string, Map<number, number[]>>();
+  const cellKey = (p: number, v: number) => p * 4_000_003 + v;
+  let lowestPowerCell = Number.POSITIVE_INFINITY;
+  for (let i = 0; i < records.length; i++) {
+    const r = records[i]!;
+    const p = r.laserPowerW;
+    const v = r.scanSpeedMmPerS;
+    if (p === null || v === null || !(p > 0) || !(v > 0)) {
+      const list = byKey.get(keys[i]!);
+      if (list) list.push(i);
+      else byKey.set(keys[i]!, [i]);
+      continue;
+    }
+    let cells = grid.get(r.alloyKey);
+    if (!cells) grid.set(r.alloyKey, (cells = new Map()));
+    const pCell = Math.floor(Math.log(p) / wP);
+    if (pCell < lowestPowerCell) lowestPowerCell = pCell;
+    const k = cellKey(pCell, Math.floor(Math.log(v) / wV));
+    const list = cells.get(k);
+    if (list) list.push(i);
+    else cells.set(k, [i]);
+  }
+  for (const list of byKey.values()) {
+    for (let x = 0; x < list.length; x++) for (let y = x + 1; y < list.length; y++) push(list[x]!, list[y]!, "exact");
+  }
+
+  for (let i = 0; i < records.length; i++) {
+    const r = records[i]!;
+    const p = r.laserPowerW;
+    const v = r.scanSpeedMmPerS;
+    if (p === null || v === null || !(p > 0) || !(v > 0)) continue;
+    const cells = grid.get(r.alloyKey)!;
+    // The box that holds every power within tolerance of p (either side's relative bound).
+    const pLo = Math.min(p - t.powerAbsW, p * (1 - powerRel)) - 1e-9;
+    const pHi = Math.max(p + t.powerAbsW, powerRel < 1 ? p / (1 - powerRel) : Number.POSITIVE_INFINITY) + 1e-9;
+    const vLo = v * (1 - speedRel) - 1e-9;
+    const vHi = (speedRel < 1 ? v / (1 - speedRel) : v * 1e6) + 1e-9;
+    const p0 = Math.floor(Math.log(Math.max(pLo, Number.MIN_VALUE)) / wP);
+    const p1 = Math.floor(Math.log(pHi) / wP);
+    const v0 = Math.floor(Math.log(Math.max(vLo, Number.MIN_VALUE)) / wV);
+    const v1 = Math.floor(Math.log(vHi) / wV);
+    for (let pc = Math.max(p0, lowestPowerCell); pc <= p1; pc++) {
+      for (let vc = v0; vc <= v1; vc++) {
+        const list = cells.get(cellKey(pc, vc));
+        if (!list) continue;
+        for (const j of list) {
+          if (j >= i) continue;
+          const kind = classifyPair(r, records[j]!, t, { x: keys[i]!, y: keys[j]! });
+          if (kind) push(j, i, kind);
+        }
+      }
+    }
+  }
+  return pairs.sort((x, y) => x.b - y.b || x.a - y.a);
+}
+
+/**
+ * One pair per record and kind, the way review shows them: each record that repeats or conflicts
+ * with earlier ones is paired with the earliest of them (the likely original); `others` lists every
+ * earlier match of that kind. A record is never paired with a later one, so a cluster of n copies
+ * gives n − 1 pairs.
+ *
+ * @example
+ * pairsForReview([{ a: 1, b: 3, kind: "exact" }, { a: 2, b: 3, kind: "exact" }]);
+ * // [{ recordId: 3, relatedId: 1, kind: "exact", others: [1, 2] }]
+ */
+export function pairsForReview(pairs: readonly DuplicatePair[]): { recordId: number; relatedId: number; kind: PairKind; others: number[] }[] {
+  const grouped = new Map<string, { recordId: number; relatedId: number; kind: PairKind; others: number[] }>();
+  for (const p of pairs) {
+    const key = `${p.b}|${p.kind}`;
+    const g = grouped.get(key);
+    if (!g) grouped.set(key, { recordId: p.b, relatedId: p.a, kind: p.kind, others: [p.a] });
+    else {
+      g.others.push(p.a);
+      if (p.a < g.relatedId) g.relatedId = p.a;
+    }
+  }
+  return [...grouped.values()].map((g) => ({ ...g, others: g.others.sort((x, y) => x - y) }));
+}
