@@ -111,7 +111,13 @@ export interface RecordsTableProps {
 export function RecordsTable({ facets, initialPage, initialError, initialKey }: RecordsTableProps) {
   const router = useRouter();
   const searchParams = useSearchParams();
-  const state = useMemo(() => tableStateFromParams(searchParams), [searchParams]);
+  // The address bar is the source of truth; the local copy makes a click show at once
+  // (the router updates search params a moment after pushState) and follows back/forward.
+  const urlState = useMemo(() => tableStateFromParams(searchParams), [searchParams]);
+  const urlKey = useMemo(() => paramsFromTableState(urlState).toString(), [urlState]);
+  const [state, setState] = useState(urlState);
+  // follow the URL only when its meaning changes, not on every new params object
+  useEffect(() => setState(urlState), [urlKey]);
   const key = useMemo(() => paramsFromTableState(state).toString(), [state]);
 
   const [loaded, setLoaded] = useState<{ key: string; page: RecordsApiPage | null; error: ApiError | null }>({ key: initialKey, page: initialPage, error: initialError });
@@ -141,6 +147,7 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
 
   const navigate = useCallback((next: TableState) => {
     const qs = paramsFromTableState(next).toString();
+    setState(next);
     window.history.pushState(null, "", qs ? `?${qs}` : window.location.pathname);
   }, []);
 
@@ -170,7 +177,6 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
 
   // ---- columns shown, remembered in this browser
   const [columnVisibility, setColumnVisibility] = useState<VisibilityState>(DEFAULT_HIDDEN);
-  const visibilityLoaded = useRef(false);
   useEffect(() => {
     try {
       const stored = window.localStorage.getItem(COLUMNS_STORAGE_KEY);
@@ -178,16 +184,19 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
     } catch {
       // unreadable or blocked storage: keep the defaults
     }
-    visibilityLoaded.current = true;
   }, []);
-  useEffect(() => {
-    if (!visibilityLoaded.current) return;
-    try {
-      window.localStorage.setItem(COLUMNS_STORAGE_KEY, JSON.stringify(columnVisibility));
-    } catch {
-      // storage full or blocked: the choice lasts for this visit only
-    }
-  }, [columnVisibility]);
+  /** Saved only when the user changes the choice, so loading never overwrites what was stored. */
+  const changeColumnVisibility = useCallback((update: VisibilityState | ((old: VisibilityState) => VisibilityState)) => {
+    setColumnVisibility((old) => {
+      const next = typeof update === "function" ? update(old) : update;
+      try {
+        window.localStorage.setItem(COLUMNS_STORAGE_KEY, JSON.stringify(next));
+      } catch {
+        // storage full or blocked: the choice lasts for this visit only
+      }
+      return next;
+    });
+  }, []);
 
   const page = loaded.page;
   const rows = useMemo(() => page?.rows ?? [], [page]);
@@ -203,7 +212,7 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
     manualFiltering: true,
     rowCount: total,
     state: { columnVisibility, sorting: [{ id: state.sort, desc: state.direction === "desc" }] },
-    onColumnVisibilityChange: setColumnVisibility,
+    onColumnVisibilityChange: changeColumnVisibility,
   });
 
   const visibleColumns = table.getVisibleLeafColumns();
@@ -337,7 +346,7 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
               .getAllLeafColumns()
               .filter((c) => c.getCanHide())
               .map((c) => ({ id: c.id, label: `${c.columnDef.meta?.label ?? c.id}${c.columnDef.meta?.unit ? ` (${c.columnDef.meta.unit})` : ""}`, visible: c.getIsVisible(), toggle: (on: boolean) => c.toggleVisibility(on) }))}
-            onReset={() => setColumnVisibility(DEFAULT_HIDDEN)}
+            onReset={() => changeColumnVisibility(DEFAULT_HIDDEN)}
           />
           <ButtonLink href="/records/new" variant="primary" size="small">
             Key in a record
