@@ -104,6 +104,11 @@ describe("resolveMapping", () => {
     );
   });
 
+  test("two headers naming one field are both guessed, so the ambiguity is an error, not a silent choice", () => {
+    const r = resolveMapping(["Alloy", "P (W)", "Power (kW)", "v (mm/s)"], null);
+    expect(r.issues.filter((i) => i.severity === "error").map((i) => i.field)).toEqual(["laserPower"]);
+  });
+
   test("guessMapping keys repeated or empty headers by position", () => {
     expect(Object.keys(guessMapping(["P (W)", "", "P (W)"]).columns)).toEqual(["#1", "#2", "#3"]);
   });

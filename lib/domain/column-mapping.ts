@@ -177,23 +177,22 @@ function columnKey(headers: readonly string[], index: number): string {
 }
 
 /**
- * A first mapping from the headers alone: fields from header names, units from headers. The first
- * column naming a field takes it; a later one is left out with a warning.
+ * A first mapping from the headers alone: fields from header names, units from headers. Two
+ * columns that name the same field are both mapped to it, so that `resolveMapping` reports the
+ * ambiguity instead of silently choosing one.
  *
  * @example
  * guessMapping(["Laser Power (W)", "DOI"]).columns; // { "Laser Power (W)": { field: "laserPower", unit: "W" }, DOI: { field: "doi" } }
  */
 export function guessMapping(headers: readonly string[]): ImportMapping {
   const columns: Record<string, ColumnRule | null> = {};
-  const taken = new Set<ImportField>();
   headers.forEach((header, index) => {
     const key = columnKey(headers, index);
     const field = guessField(header);
-    if (!field || taken.has(field)) {
+    if (!field) {
       columns[key] = null;
       return;
     }
-    taken.add(field);
     const quantity = quantityOfField(field);
     const unit = quantity ? parseHeaderUnit(header).unit : null;
     columns[key] = quantity ? { field, unit } : { field };

@@ -32,6 +32,7 @@ describe("mapImportRow", () => {
 
   test.each([
     ["a DOI cell that is no DOI is an error", ["316L", "200", "1", "0.1", "", "", "see paper"], "doi", "error"],
+    ["a web address in the DOI column is a warning; the source is known by it", ["316L", "200", "1", "0.1", "", "", "http://www.example.org/paper/1"], "doi", "warning"],
     ["an unknown outcome word is a warning and kept", ["316L", "200", "1", "0.1", "splendid", "", ""], "outcome", "warning"],
   ])("%s", (_label, cells, field, severity) => {
     const r = mapImportRow(cells, cols, {}, 7);

@@ -44,6 +44,8 @@ export interface MappedRow {
   input: RowRecordInput;
   /** Normalized DOI from the row's DOI cell; null when there is no DOI column or the cell is empty. */
   doi: string | null;
+  /** A web address found in the DOI column instead of a DOI: the source is known by it. */
+  sourceUrl: string | null;
   problems: RowProblem[];
   /** Every cell of the row was empty. */
   blank: boolean;
@@ -83,6 +85,7 @@ export function mapImportRow(cells: readonly string[], columns: readonly Resolve
   };
   const problems: RowProblem[] = [];
   let doi: string | null = null;
+  let sourceUrl: string | null = null;
   let outcomeText = defaults.outcome?.trim() || null;
   let blank = true;
 
@@ -125,7 +128,11 @@ export function mapImportRow(cells: readonly string[], columns: readonly Resolve
       case "doi": {
         const n = normalizeDoi(text);
         if (n) doi = n;
-        else problems.push({ row, field: "doi", severity: "error", message: `Column "${col.header}": "${text.length > 80 ? `${text.slice(0, 79)}…` : text}" is not a DOI (it should look like 10.5555/abc).` });
+        else if (/^https?:\/\/[^\s/]+\.[^\s]+$/i.test(text)) {
+          // compiled datasets sometimes give a publisher's page where the DOI belongs
+          sourceUrl = text;
+          problems.push({ row, field: "doi", severity: "warning", message: `Column "${col.header}": "${text}" is a web address, not a DOI; the row is assigned to the source with that address.` });
+        } else problems.push({ row, field: "doi", severity: "error", message: `Column "${col.header}": "${text.length > 80 ? `${text.slice(0, 79)}…` : text}" is not a DOI (it should look like 10.5555/abc).` });
         break;
       }
     }
@@ -139,5 +146,5 @@ export function mapImportRow(cells: readonly string[], columns: readonly Resolve
       problems.push({ row, field: "outcome", severity: "warning", message: `The outcome "${outcomeText}" is not a word this workbench knows; it is kept as written and the outcome set to unknown.` });
     }
   }
-  return { input, doi, problems, blank };
+  return { input, doi, sourceUrl, problems, blank };
 }

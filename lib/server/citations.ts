@@ -1,0 +1,59 @@
+import { parseCitations, type CitationSource } from "../domain/citations";
+import { normalizeDoi, titleKey } from "../domain/doi";
+import { findSourceByDoi, findSourcesByTitleKey } from "../db/sources";
+import { fail, guard, ok, type Result } from "./result";
+
+export interface ExistingSourceMatch {
+  id: number;
+  title: string;
+  year: number | null;
+  doi: string | null;
+  /** What matched: the DOI, or the normalized title with the year. */
+  by: "doi" | "title_year";
+}
+
+export interface CitationCandidate extends CitationSource {
+  /** A source already in the collection that this entry is, offered instead of a copy. */
+  existing: ExistingSourceMatch | null;
+}
+
+async function findExisting(doi: string | null, title: string, year: number | null): Promise<ExistingSourceMatch | null> {
+  if (doi) {
+    const s = await findSourceByDoi(doi);
+    if (s) return { id: s.id, title: s.title, year: s.year, doi: s.doi, by: "doi" };
+  }
+  if (title) {
+    const same = await findSourcesByTitleKey(titleKey(title), year);
+    const s = same[0];
+    if (s) return { id: s.id, title: s.title, year: s.year, doi: s.doi, by: "title_year" };
+  }
+  return null;
+}
+
+/**
+ * Reads pasted BibTeX or RIS into source candidates, each with the existing source it matches (same
+ * DOI, or same normalized title and year), so the form can offer that source instead of a copy.
+ */
+export async function readCitations(text: string): Promise<Result<{ format: "bibtex" | "ris"; entries: CitationCandidate[]; skipped: { label: string; message: string }[] }>> {
+  return guard(async () => {
+    if (typeof text !== "string" || !text.trim()) return fail("invalid_input", "Paste a BibTeX or RIS entry.", { fieldErrors: { citation: ["Paste a BibTeX or RIS entry."] } });
+    if (text.length > 2_000_000) return fail("too_large", "That is more text than a citation library export of a few thousand entries; paste fewer entries.");
+    const parsed = parseCitations(text);
+    if (!parsed.ok) return fail("invalid_input", parsed.message, { fieldErrors: { citation: [parsed.message] } });
+    const entries: CitationCandidate[] = [];
+    for (const e of parsed.entries) entries.push({ ...e, existing: await findExisting(e.doi, e.title, e.year) });
+    return ok({ format: parsed.format, entries, skipped: parsed.skipped });
+  });
+}
+
+/**
+ * A typed DOI, normalized, with the source that already has it. No metadata is fetched: the
+ * workbench works offline, so title and authors come from the user or a pasted citation.
+ */
+export async function lookupDoi(text: string): Promise<Result<{ doi: string; existing: ExistingSourceMatch | null }>> {
+  return guard(async () => {
+    const doi = normalizeDoi(typeof text === "string" ? text : "");
+    if (!doi) return fail("invalid_input", "That is not a DOI: it should look like 10.5555/abc123 (a resolver address in front is fine).", { fieldErrors: { doi: ["Not a DOI."] } });
+    return ok({ doi, existing: await findExisting(doi, "", null) });
+  });
+}

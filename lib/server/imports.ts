@@ -1,0 +1,569 @@
+import { createReadStream, openSync, readSync, closeSync } from "node:fs";
+import { parse as csvParse } from "csv-parse";
+import readExcelFile from "read-excel-file/node";
+import { z } from "zod";
+import { appendAuditRaw } from "../db/audit-raw";
+import { openSqlite, sqlite, type SqliteDatabase } from "../db/connection";
+import { finishImportRunRaw, getMappingPreset, insertImportRunRaw, insertPlaceholderSourceRaw, listImportRuns, listMappingPresets, saveMappingPreset, sourceExistsRaw, sourceIdByUrlRaw, sourceIdsByDoiRaw, type ImportRunRow, type MappingPresetRow } from "../db/imports";
+import { resolveDatabaseLocation } from "../db/location";
+import { hasMappingErrors, IMPORT_FIELDS, resolveMapping, type ImportMapping, type MappingIssue, type ResolvedMapping } from "../domain/column-mapping";
+import { csvParseOptions, CSV_DELIMITERS, describeCsvError, sniffDelimiter, type CsvDelimiter } from "../domain/csv";
+import { normalizeDoi, titleKey } from "../domain/doi";
+import { mapImportRow, type RowProblem } from "../domain/import-row";
+import { normalizeBox, type PdfBox } from "../domain/pdf-table";
+import { looksLikeHeader, PASTE_SPLITTERS, splitTableText, type PasteSplitter } from "../domain/table-text";
+import { requireRole, type Actor } from "./actor";
+import { prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
+import { fail, guard, ok, type Result } from "./result";
+
+// ---------------------------------------------------------------------------------------------
+// Where the rows come from
+
+export type TableInput =
+  | { kind: "csv"; path: string; fileName: string; fileSha256?: string | null; delimiter?: CsvDelimiter }
+  | { kind: "xlsx"; path: string; fileName: string; fileSha256?: string | null; sheet?: string | null }
+  | { kind: "paste"; text: string; splitter?: PasteSplitter; fileName?: string }
+  | { kind: "pdf_table"; rows: string[][]; fileName: string; fileSha256?: string | null; page: number; box: PdfBox; label?: string | null };
+
+export interface TableHead {
+  headers: string[];
+  /** Sheets of a workbook (the chosen one first is not implied; see `sheet`). */
+  sheets: string[];
+  sheet: string | null;
+  /** Detected CSV delimiter or paste splitter, for display. */
+  delimiter: string | null;
+}
+
+class TableError extends Error {
+  constructor(
+    message: string,
+    readonly field = "file",
+    readonly row: number | null = null,
+  ) {
+    super(message);
+  }
+}
+
+function cellText(v: unknown): string {
+  if (v === null || v === undefined) return "";
+  if (v instanceof Date) return Number.isNaN(v.getTime()) ? "" : v.toISOString().slice(0, 10);
+  if (typeof v === "boolean") return v ? "TRUE" : "FALSE";
+  return String(v).trim();
+}
+
+function readHead(filePath: string, bytes = 65_536): string {
+  const fd = openSync(filePath, "r");
+  try {
+    const buf = Buffer.alloc(bytes);
+    const n = readSync(fd, buf, 0, bytes, 0);
+    return buf.subarray(0, n).toString("utf8");
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/**
+ * Opens a table: its header, and the data rows as an async stream (CSV is streamed from disk;
+ * a workbook sheet is read whole by the XLSX reader; pasted text is already in memory).
+ */
+async function openTable(input: TableInput): Promise<{ head: TableHead; rows: AsyncIterable<string[]>; close: () => void }> {
+  if (input.kind === "csv") {
+    const sample = readHead(input.path);
+    if (sample.replace(/^\uFEFF/, "").trim() === "") throw new TableError(`"${input.fileName}" is empty: there is no header and no row.`);
+    const delimiter = input.delimiter ?? sniffDelimiter(sample);
+    const parser = createReadStream(input.path).pipe(csvParse(csvParseOptions(delimiter)));
+    const iterator = parser[Symbol.asyncIterator]() as AsyncIterator<string[]>;
+    let first: IteratorResult<string[]>;
+    try {
+      first = await iterator.next();
+    } catch (error) {
+      parser.destroy();
+      const e = describeCsvError(error);
+      throw new TableError(e.message, "file", e.line);
+    }
+    if (first.done) {
+      parser.destroy();
+      throw new TableError(`"${input.fileName}" is empty: there is no header and no row.`);
+    }
+    const headers = first.value.map(cellText);
+    async function* rest(): AsyncGenerator<string[]> {
+      try {
+        for (;;) {
+          const n = await iterator.next();
+          if (n.done) return;
+          yield n.value;
+        }
+      } catch (error) {
+        const e = describeCsvError(error);
+        throw new TableError(e.message, "file", e.line);
+      }
+    }
+    return { head: { headers, sheets: [], sheet: null, delimiter }, rows: rest(), close: () => parser.destroy() };
+  }
+  if (input.kind === "xlsx") {
+    let sheets: { sheet: string; data: unknown[][] }[];
+    try {
+      sheets = (await readExcelFile(input.path)) as { sheet: string; data: unknown[][] }[];
+    } catch (error) {
+      throw new TableError(`"${input.fileName}" cannot be read as an XLSX workbook (${(error as Error).message.split("\n")[0]}).`);
+    }
+    const names = sheets.map((s) => s.sheet);
+    const chosen = input.sheet ? sheets.find((s) => s.sheet === input.sheet) : sheets[0];
+    if (!chosen) throw new TableError(input.sheet ? `The workbook has no sheet named "${input.sheet}"; its sheets are ${names.map((n) => `"${n}"`).join(", ")}.` : "The workbook has no sheets.", "sheet");
+    const data = chosen.data.map((r) => r.map(cellText));
+    const firstIndex = data.findIndex((r) => r.some((c) => c !== ""));
+    if (firstIndex < 0) throw new TableError(`Sheet "${chosen.sheet}" is empty.`, "sheet");
+    const headers = data[firstIndex]!;
+    async function* rows(): AsyncGenerator<string[]> {
+      for (let i = firstIndex + 1; i < data.length; i++) yield data[i]!;
+    }
+    return { head: { headers, sheets: names, sheet: chosen.sheet, delimiter: null }, rows: rows(), close: () => undefined };
+  }
+  const table = input.kind === "paste" ? splitTableText(input.text, input.splitter ?? "auto") : { rows: input.rows.map((r) => r.map(cellText)), splitter: null };
+  if (!table.rows.length) throw new TableError(input.kind === "paste" ? "Nothing was pasted: the text has no rows." : "The box holds no rows.");
+  const [headers, ...data] = table.rows;
+  async function* rows(): AsyncGenerator<string[]> {
+    for (const r of data) yield r;
+  }
+  return { head: { headers: headers!, sheets: [], sheet: null, delimiter: table.splitter }, rows: rows(), close: () => undefined };
+}
+
+function checkHeader(head: TableHead, sample: readonly string[][]): void {
+  const named = head.headers.filter((h) => h !== "").length;
+  const where = head.sheet ? `Sheet "${head.sheet}"` : "The table";
+  if (named === 0) throw new TableError(`${where} has no header: its first row is empty.`, "header", 0);
+  if (!looksLikeHeader([head.headers, ...sample])) {
+    throw new TableError(`${where} has no header: its first row holds values (${head.headers.slice(0, 3).join(", ")}…), not column names. Add a row of column names such as "Laser power (W)".`, "header", 0);
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Options
+
+const mappingSchema = z.object({
+  columns: z.record(z.string(), z.object({ field: z.string().nullable(), unit: z.string().nullish() }).nullable()),
+  defaults: z
+    .object({ alloy: z.string().nullish(), machine: z.string().nullish(), atmosphere: z.string().nullish(), outcome: z.string().nullish(), locationLabel: z.string().nullish() })
+    .optional(),
+});
+
+/** Reads a mapping from JSON (a --mapping file, a preset, a form). */
+export function parseMappingJson(value: unknown): Result<ImportMapping> {
+  const parsed = mappingSchema.safeParse(value);
+  if (!parsed.success) return fail("invalid_input", `The mapping is not in the expected form: ${parsed.error.issues.map((i) => `${i.path.join(".") || "mapping"}: ${i.message}`).join("; ")}.`);
+  // field names are checked against the record's fields when the mapping is resolved
+  return ok(parsed.data as ImportMapping);
+}
+
+export interface ImportOptions {
+  /** null: guess from the headers. */
+  mapping: ImportMapping | null;
+  /** The source for rows without a DOI column (or with an empty DOI cell). */
+  sourceId?: number | null;
+  /** As sourceId, by DOI; a DOI not yet in the collection creates a source. */
+  sourceDoi?: string | null;
+  /** Leave out rows with errors instead of refusing the import. */
+  excludeErrors?: boolean;
+  dryRun?: boolean;
+  signal?: AbortSignal;
+  onProgress?: (p: ImportProgress) => void;
+  /** How many mapped rows the preview returns. */
+  sampleSize?: number;
+  now?: () => Date;
+}
+
+export interface ImportProgress {
+  phase: "reading" | "writing" | "done";
+  rowsRead: number;
+  rowsWritten: number;
+  /** Rows to write, once known. */
+  rowsTotal: number | null;
+}
+
+export interface PreviewRow {
+  row: number;
+  cells: string[];
+  /** Canonical values of the quantity fields that parsed. */
+  values: Record<string, number | null>;
+  outcome: string;
+  sourceLabel: string | null;
+  problems: RowProblem[];
+}
+
+export interface ImportSourceUse {
+  /** "doi:<doi>" or "url:<address>". */
+  key: string;
+  doi: string | null;
+  url: string | null;
+  /** The source in the collection, or null when the import will create it. */
+  sourceId: number | null;
+  rows: number;
+}
+
+export interface ImportAnalysis {
+  head: TableHead;
+  mapping: ResolvedMapping;
+  /** Data rows read (blank rows not counted). */
+  rowCount: number;
+  blankRows: number;
+  /** Every problem by row and field; errors and warnings. */
+  problems: RowProblem[];
+  errorRows: number;
+  sample: PreviewRow[];
+  sources: ImportSourceUse[];
+}
+
+export interface ImportCommit {
+  status: "committed" | "dry_run" | "cancelled";
+  importRunId: number | null;
+  imported: number;
+  /** Rows left out because they had errors (only with excludeErrors). */
+  excluded: number;
+  errors: { row: number; field: string; message: string }[];
+  warnings: { row: number; field: string; message: string }[];
+  records: { row: number; id: number }[];
+  createdSources: { doi: string | null; url: string | null; id: number }[];
+  unmapped: string[];
+  mappingIssues: MappingIssue[];
+}
+
+/** A row headed for a source still to be created from its DOI. */
+const PENDING_SOURCE = 2_147_483_647;
+const PROGRESS_EVERY = 2000;
+const WRITE_CHUNK = 5000;
+
+const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+function cancelled(signal: AbortSignal | undefined): boolean {
+  return signal?.aborted === true;
+}
+
+interface Analysed {
+  analysis: ImportAnalysis;
+  prepared: (PreparedBulkRow & { sourceKey: string | null })[];
+  defaultSource: { id: number | null; doi: string | null };
+}
+
+const FIELD_KEY: Record<string, string> = {
+  laserPower: "laserPowerW", scanSpeed: "scanSpeedMmPerS", hatchSpacing: "hatchSpacingUm", layerThickness: "layerThicknessUm", spotDiameter: "spotDiameterUm",
+  preheat: "preheatC", powderD10: "powderD10Um", powderD50: "powderD50Um", powderD90: "powderD90Um", relativeDensity: "relativeDensityPct",
+};
+
+async function analyse(input: TableInput, options: ImportOptions, db: SqliteDatabase): Promise<Result<Analysed> | "cancelled"> {
+  let table: Awaited<ReturnType<typeof openTable>>;
+  try {
+    table = await openTable(input);
+  } catch (error) {
+    if (error instanceof TableError) return fail("invalid_input", error.message, { rowErrors: [{ row: error.row ?? 0, field: error.field, message: error.message }] });
+    throw error;
+  }
+  const { head } = table;
+
+  // default source
+  let defaultSource: { id: number | null; doi: string | null } = { id: null, doi: null };
+  if (options.sourceId != null) {
+    if (!sourceExistsRaw(db, options.sourceId)) return fail("invalid_input", `Source ${options.sourceId} does not exist; nothing was read.`, { fieldErrors: { sourceId: [`Source ${options.sourceId} does not exist.`] } });
+    defaultSource = { id: options.sourceId, doi: null };
+  } else if (options.sourceDoi) {
+    const doi = normalizeDoi(options.sourceDoi);
+    if (!doi) return fail("invalid_input", `"${options.sourceDoi}" is not a DOI (it should look like 10.5555/abc).`, { fieldErrors: { sourceDoi: ["Not a DOI."] } });
+    defaultSource = { id: sourceIdsByDoiRaw(db, [doi]).get(doi) ?? null, doi };
+  }
+
+  const mapping = resolveMapping(head.headers, options.mapping, { requireSource: defaultSource.id === null && defaultSource.doi === null });
+  const problems: RowProblem[] = [];
+  const prepared: Analysed["prepared"] = [];
+  const sample: PreviewRow[] = [];
+  const sampleSize = options.sampleSize ?? 50;
+  const sources = new Map<string, ImportSourceUse>();
+  const errorRows = new Set<number>();
+  let rowCount = 0;
+  let blankRows = 0;
+  let row = 0;
+  let headerChecked = false;
+  const firstRows: string[][] = [];
+  const location = input.kind === "pdf_table" ? pdfLocation(input) : null;
+
+  const handle = (cells: string[]) => {
+    row++;
+    const mapped = mapImportRow(cells, mapping.columns, mapping.defaults, row);
+    if (mapped.blank) {
+      blankRows++;
+      return;
+    }
+    rowCount++;
+    const rowProblems = [...mapped.problems];
+    const key = mapped.doi ? `doi:${mapped.doi}` : mapped.sourceUrl ? `url:${mapped.sourceUrl}` : defaultSource.id === null && defaultSource.doi ? `doi:${defaultSource.doi}` : null;
+    let sourceId: number | null = key ? null : defaultSource.id;
+    let pendingKey: string | null = null;
+    if (key) {
+      let use = sources.get(key);
+      if (!use) {
+        const doi = key.startsWith("doi:") ? key.slice(4) : null;
+        const url = key.startsWith("url:") ? key.slice(4) : null;
+        use = { key, doi, url, sourceId: doi ? (sourceIdsByDoiRaw(db, [doi]).get(doi) ?? null) : sourceIdByUrlRaw(db, url!), rows: 0 };
+        sources.set(key, use);
+      }
+      use.rows++;
+      sourceId = use.sourceId;
+      if (sourceId === null) pendingKey = key;
+    }
+    if (sourceId === null && pendingKey === null && !rowProblems.some((p) => p.field === "doi")) {
+      rowProblems.push({ row, field: "doi", severity: "error", message: "No source for this row: its DOI cell is empty and no source was chosen for the import." });
+    }
+    const recordInput = {
+      ...mapped.input,
+      ...(location ? { locationPage: location.page, locationLabel: location.label } : {}),
+      sourceId: sourceId ?? PENDING_SOURCE,
+    };
+    const checked = prepareBulkRow(recordInput, row);
+    if (!checked.ok) for (const e of checked.errors) rowProblems.push({ row, field: e.field, severity: "error", message: e.message });
+    const rowHasError = rowProblems.some((p) => p.severity === "error");
+    if (rowHasError) errorRows.add(row);
+    else if (checked.ok) prepared.push({ ...checked.prepared, sourceKey: pendingKey });
+    problems.push(...rowProblems);
+    if (sample.length < sampleSize) {
+      const values: Record<string, number | null> = {};
+      if (checked.ok) for (const [f, key] of Object.entries(FIELD_KEY)) values[f] = (checked.prepared.write as unknown as Record<string, number | null>)[key] ?? null;
+      sample.push({
+        row,
+        cells,
+        values,
+        outcome: mapped.input.outcome,
+        sourceLabel: sourceId !== null ? `source ${sourceId}` : pendingKey ? `new source (${pendingKey.slice(4)})` : null,
+        problems: rowProblems,
+      });
+    }
+  };
+
+  try {
+    for await (const raw of table.rows) {
+      const cells = raw.map(cellText);
+      if (!headerChecked) {
+        firstRows.push(cells);
+        if (firstRows.length < 5) continue;
+        checkHeader(head, firstRows);
+        headerChecked = true;
+        if (hasMappingErrors(mapping.issues)) break;
+        for (const c of firstRows) handle(c);
+        continue;
+      }
+      handle(cells);
+      if (row % PROGRESS_EVERY === 0) {
+        options.onProgress?.({ phase: "reading", rowsRead: row, rowsWritten: 0, rowsTotal: null });
+        await yieldToLoop();
+        if (cancelled(options.signal)) return "cancelled";
+      }
+    }
+    if (!headerChecked) {
+      if (!firstRows.length && head.headers.every((h) => h === "")) throw new TableError("The table is empty.", "file", 0);
+      checkHeader(head, firstRows);
+      if (!hasMappingErrors(mapping.issues)) for (const c of firstRows) handle(c);
+    }
+  } catch (error) {
+    if (error instanceof TableError) return fail("invalid_input", error.message, { rowErrors: [{ row: error.row ?? row + 1, field: error.field, message: error.message }] });
+    throw error;
+  } finally {
+    table.close();
+  }
+  if (rowCount === 0 && !hasMappingErrors(mapping.issues)) {
+    return fail("invalid_input", `${head.sheet ? `Sheet "${head.sheet}"` : "The table"} has a header but no data rows.`, { rowErrors: [{ row: 1, field: "file", message: "No data rows below the header." }] });
+  }
+  return ok({
+    analysis: { head, mapping, rowCount, blankRows, problems, errorRows: errorRows.size, sample, sources: [...sources.values()] },
+    prepared,
+    defaultSource,
+  });
+}
+
+function pdfLocation(input: Extract<TableInput, { kind: "pdf_table" }>): { page: number; label: string } {
+  const b = normalizeBox(input.box);
+  const r = (v: number) => Math.round(v);
+  const box = `box ${r(b.x)},${r(b.y)} ${r(b.width)}×${r(b.height)} pt`;
+  const label = input.label?.trim() ? `${input.label.trim().slice(0, 60)} · ${box}` : box;
+  return { page: input.page, label };
+}
+
+const toRowError = (p: RowProblem) => ({ row: p.row, field: p.field, message: p.message });
+
+/**
+ * Reads a whole table with a mapping and checks every row, writing nothing: the mapping as
+ * resolved (with its issues and unmapped columns), every problem by row and field, a sample of
+ * rows with their canonical values, and the sources the DOI column names.
+ */
+export async function previewImport(input: TableInput, options: ImportOptions): Promise<Result<ImportAnalysis>> {
+  return guard(async () => {
+    const r = await analyse(input, options, sqlite());
+    if (r === "cancelled") return fail("invalid_input", "The preview was cancelled.");
+    if (!r.ok) return r;
+    return ok(r.data.analysis);
+  });
+}
+
+function formatOf(input: TableInput): "csv" | "xlsx" | "paste" | "pdf_table" {
+  return input.kind;
+}
+
+const iso = (d: Date) => d.toISOString().replace("Z", "+00:00");
+
+/**
+ * Imports a table: reads and checks every row (as the preview does), then writes every row or
+ * none in one transaction, with an ImportRun, any sources the DOI column names that are not yet in
+ * the collection, and one audit event. Rows with errors refuse the whole import unless
+ * `excludeErrors` is set. Progress is reported while reading and writing; an aborted `signal`
+ * rolls the transaction back, so a cancelled import leaves no records, only a cancelled run.
+ */
+export async function commitImport(input: TableInput, options: ImportOptions, actor: Actor): Promise<Result<ImportCommit>> {
+  return guard(async () => {
+    requireRole(actor, "contributor");
+    const { filePath } = resolveDatabaseLocation();
+    // A connection of its own: its transaction spans several turns of the event loop, and other
+    // requests on the shared connection must not run inside it.
+    const db = openSqlite(filePath);
+    try {
+      return await commitOn(db, input, options, actor);
+    } finally {
+      db.close();
+    }
+  });
+}
+
+async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOptions, actor: Actor): Promise<Result<ImportCommit>> {
+  const now = options.now ?? (() => new Date());
+  const fileName = input.fileName ?? (input.kind === "paste" ? "pasted table" : "table");
+  const fileSha256 = "fileSha256" in input ? (input.fileSha256 ?? null) : null;
+  const sheetOf = (a: ImportAnalysis | null) => a?.head.sheet ?? null;
+  const recordCancelled = (analysis: ImportAnalysis | null): Result<ImportCommit> => {
+    const id = insertImportRunRaw(db, {
+      fileName, fileSha256, format: formatOf(input), sheet: sheetOf(analysis), mapping: analysis?.mapping.mapping ?? options.mapping ?? {},
+      sourceId: options.sourceId ?? null, rowCount: analysis?.rowCount ?? 0, importedCount: 0, excludedCount: 0, status: "cancelled", createdById: actor.id, at: iso(now()),
+    });
+    options.onProgress?.({ phase: "done", rowsRead: analysis?.rowCount ?? 0, rowsWritten: 0, rowsTotal: 0 });
+    return ok({ status: "cancelled", importRunId: id, imported: 0, excluded: 0, errors: [], warnings: [], records: [], createdSources: [], unmapped: analysis?.mapping.unmapped ?? [], mappingIssues: analysis?.mapping.issues ?? [] });
+  };
+
+  const analysed = await analyse(input, options, db);
+  if (analysed === "cancelled") return recordCancelled(null);
+  if (!analysed.ok) return analysed;
+  const { analysis, prepared } = analysed.data;
+  const errors = analysis.problems.filter((p) => p.severity === "error").map(toRowError);
+  const warnings = analysis.problems.filter((p) => p.severity === "warning").map(toRowError);
+  const base = { errors, warnings, unmapped: analysis.mapping.unmapped, mappingIssues: analysis.mapping.issues };
+
+  if (hasMappingErrors(analysis.mapping.issues)) {
+    const mappingErrors = analysis.mapping.issues.filter((i) => i.severity === "error");
+    return fail("invalid_input", `The column mapping needs attention; nothing was written. ${mappingErrors.map((i) => i.message).join(" ")}`, {
+      rowErrors: mappingErrors.map((i) => ({ row: 0, field: i.field, message: i.message })),
+      mappingIssues: analysis.mapping.issues,
+      unmapped: analysis.mapping.unmapped,
+    });
+  }
+  if (errors.length && !options.excludeErrors) {
+    return fail("invalid_input", `${analysis.errorRows} of ${analysis.rowCount} rows have problems; nothing was written. Fix them, or choose to leave those rows out.`, { rowErrors: errors, ...base, rowCount: analysis.rowCount });
+  }
+  if (options.dryRun) {
+    return ok({ status: "dry_run", importRunId: null, imported: prepared.length, excluded: analysis.errorRows, ...base, records: [], createdSources: [] });
+  }
+
+  const at = iso(now());
+  const total = prepared.length;
+  options.onProgress?.({ phase: "writing", rowsRead: analysis.rowCount, rowsWritten: 0, rowsTotal: total });
+  db.exec("BEGIN IMMEDIATE");
+  let open = true;
+  try {
+    const runId = insertImportRunRaw(db, {
+      fileName, fileSha256, format: formatOf(input), sheet: sheetOf(analysis), mapping: analysis.mapping.mapping,
+      sourceId: options.sourceId ?? null, rowCount: analysis.rowCount, importedCount: 0, excludedCount: 0, status: "committed", createdById: actor.id, at,
+    });
+    // sources named by DOI (or address) that are not in the collection yet
+    const createdSources: { doi: string | null; url: string | null; id: number }[] = [];
+    const newIds = new Map<string, number>();
+    for (const use of analysis.sources) {
+      if (use.sourceId !== null || newIds.has(use.key)) continue;
+      const existing = use.doi ? sourceIdsByDoiRaw(db, [use.doi]).get(use.doi) : sourceIdByUrlRaw(db, use.url!);
+      if (existing !== undefined && existing !== null) {
+        newIds.set(use.key, existing);
+        continue;
+      }
+      const title = use.doi ? `Source with DOI ${use.doi}` : `Source at ${use.url}`.slice(0, 500);
+      const id = insertPlaceholderSourceRaw(
+        db,
+        { kind: "journal_article", title, titleKey: titleKey(title), doi: use.doi, url: use.url, notes: `Created by importing ${fileName} (import run ${runId}), known only by its ${use.doi ? "DOI" : "web address"}: complete the title, authors, year and kind.` },
+        actor.id,
+        at,
+      );
+      appendAuditRaw(db, { actorId: actor.id, actorName: actor.name, action: "create", entityType: "source", entityId: id, after: { doi: use.doi, url: use.url, title, createdBy: `import run ${runId}` }, at });
+      newIds.set(use.key, id);
+      createdSources.push({ doi: use.doi, url: use.url, id });
+    }
+    for (const p of prepared) if (p.sourceKey) p.write.sourceId = newIds.get(p.sourceKey) ?? PENDING_SOURCE;
+
+    const materials = new Map<string, number>();
+    const ids: number[] = [];
+    for (let start = 0; start < total; start += WRITE_CHUNK) {
+      const chunk = prepared.slice(start, start + WRITE_CHUNK);
+      ids.push(...writePreparedRows(db, chunk, actor.id, at, { importFile: fileName, importRunId: runId, materials }));
+      options.onProgress?.({ phase: "writing", rowsRead: analysis.rowCount, rowsWritten: ids.length, rowsTotal: total });
+      if (start + WRITE_CHUNK < total) await yieldToLoop();
+      if (cancelled(options.signal)) {
+        db.exec("ROLLBACK");
+        open = false;
+        return recordCancelled(analysis);
+      }
+    }
+    finishImportRunRaw(db, runId, { rowCount: analysis.rowCount, importedCount: ids.length, excludedCount: analysis.errorRows });
+    appendAuditRaw(db, {
+      actorId: actor.id, actorName: actor.name, action: "import", entityType: "import_run", entityId: runId,
+      after: { fileName, format: formatOf(input), sheet: sheetOf(analysis), imported: ids.length, excludedRows: [...new Set(errors.map((e) => e.row))], firstId: ids[0] ?? null, lastId: ids[ids.length - 1] ?? null, createdSources: createdSources.map((s) => s.id) },
+      at,
+    });
+    db.exec("COMMIT");
+    open = false;
+    options.onProgress?.({ phase: "done", rowsRead: analysis.rowCount, rowsWritten: ids.length, rowsTotal: total });
+    return ok({ status: "committed", importRunId: runId, imported: ids.length, excluded: analysis.errorRows, ...base, records: prepared.map((p, i) => ({ row: p.row, id: ids[i]! })), createdSources });
+  } finally {
+    if (open) db.exec("ROLLBACK");
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Presets and history
+
+const presetInput = z.object({
+  name: z.string().trim().min(1, { message: "Name the preset." }).max(100),
+  sourceId: z.coerce.number().int().positive().nullable().default(null),
+});
+
+/** Saves a mapping as a named preset (sourceId null) or as the mapping of a source. */
+export async function saveImportPreset(input: { name: string; sourceId?: number | null; mapping: unknown }, actor: Actor): Promise<Result<MappingPresetRow>> {
+  return guard(async () => {
+    requireRole(actor, "contributor");
+    const meta = presetInput.safeParse(input);
+    if (!meta.success) return fail("invalid_input", meta.error.issues[0]?.message ?? "Name the preset.");
+    const mapping = parseMappingJson(input.mapping);
+    if (!mapping.ok) return mapping;
+    for (const rule of Object.values(mapping.data.columns)) {
+      if (rule?.field && !(IMPORT_FIELDS as readonly string[]).includes(rule.field)) return fail("invalid_input", `"${rule.field}" is not a field of a build record.`);
+    }
+    if (meta.data.sourceId !== null && !sourceExistsRaw(sqlite(), meta.data.sourceId)) return fail("not_found", `Source ${meta.data.sourceId} does not exist.`);
+    return ok(await saveMappingPreset(meta.data.name, meta.data.sourceId, mapping.data));
+  });
+}
+
+export async function listImportPresets(sourceId: number | null): Promise<Result<MappingPresetRow[]>> {
+  return guard(async () => ok(await listMappingPresets(sourceId)));
+}
+
+export async function getImportPreset(id: number): Promise<Result<MappingPresetRow>> {
+  return guard(async () => {
+    const p = await getMappingPreset(id);
+    return p ? ok(p) : fail("not_found", `Preset ${id} does not exist.`);
+  });
+}
+
+export async function listRecentImports(limit = 20): Promise<Result<ImportRunRow[]>> {
+  return guard(async () => ok(await listImportRuns(limit)));
+}
+
+export const IMPORT_SPLITTERS = PASTE_SPLITTERS;
+export const IMPORT_DELIMITERS = CSV_DELIMITERS;
