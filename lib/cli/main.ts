@@ -9,6 +9,8 @@ Commands:
   db seed [--reset] [--if-empty]     seed the demo scenario (--reset keeps the old database file aside and starts anew)
   records list --json [filters]      list records (--alloy, --source, --status, --outcome, --power/--speed/--hatch/--layer MIN-MAX, --limit N)
   sources list --json                list sources
+  import FILE [--sheet NAME] [--mapping FILE.json] [--source-doi DOI | --source-id ID] [--dry-run] [--exclude-errors] [--json]
+                                     import a CSV or XLSX table: every row or none (rows with errors are left out only with --exclude-errors)
   meltpool --power 200W --speed 800mm/s --spot 80um [--alloy 316L ...] [--json]
                                      melt-pool size and defect criteria for one parameter set
 
@@ -19,6 +21,7 @@ const COMMANDS: Record<string, () => Promise<CliCommand>> = {
   db: async () => (await import("./commands/db")).db,
   records: async () => (await import("./commands/records")).records,
   sources: async () => (await import("./commands/sources")).sources,
+  import: async () => (await import("./commands/import")).importCommand,
   meltpool: async () => (await import("./commands/meltpool")).meltpool,
 };
 
