@@ -1,6 +1,6 @@
 /**
  * Regenerates lib/domain/data/eagar-tsai-surface.json, the precomputed Eagar–Tsai solution surface,
- * by direct integration at every node (about half a minute on one core).
+ * by direct integration at every node and at test points in every cell (a few minutes on one core).
  *
  *   npx tsx test/reference/build-eagar-tsai-surface.ts
  *
@@ -8,21 +8,27 @@
  */
 import { writeFileSync } from "node:fs";
 import path from "node:path";
-import { buildSurfaceTable, DEFAULT_SURFACE_SPEC } from "../../lib/domain/eagar-tsai-surface";
+import { buildSurfaceTable, DEFAULT_SURFACE_SPECS, type SurfaceFile, type SurfaceTable } from "../../lib/domain/eagar-tsai-surface";
 
 const started = Date.now();
-const table = buildSurfaceTable(DEFAULT_SURFACE_SPEC, (done, total) => {
-  process.stdout.write(`\rrow ${done}/${total} (${((Date.now() - started) / 1000).toFixed(0)} s)`);
+const round = (v: number): number => Number(v.toPrecision(12));
+const tables: SurfaceTable[] = DEFAULT_SURFACE_SPECS.map((spec, k) => {
+  const table = buildSurfaceTable(spec, (done, total) => {
+    process.stdout.write(`\rtable ${k + 1}/${DEFAULT_SURFACE_SPECS.length}: row ${done}/${total} (${((Date.now() - started) / 1000).toFixed(0)} s)`);
+  });
+  return {
+    ...table,
+    lnPeakG: table.lnPeakG.map(round),
+    lnHalfWidthHead: table.lnHalfWidthHead.map(round),
+    lnHalfWidthTail: table.lnHalfWidthTail.map(round),
+    lnDepth: table.lnDepth.map(round),
+    lnLength: table.lnLength.map(round),
+  };
 });
-const round = (v: number | null): number | null => (v === null ? null : Number(v.toPrecision(12)));
-const rounded = {
-  ...table,
-  lnPeakG: table.lnPeakG.map((v) => round(v) as number),
-  lnHalfWidthHead: table.lnHalfWidthHead.map((v) => round(v) as number),
-  lnHalfWidthTail: table.lnHalfWidthTail.map(round),
-  lnDepth: table.lnDepth.map((v) => round(v) as number),
-  lnLength: table.lnLength.map((v) => round(v) as number),
+const file: SurfaceFile = {
+  description: "Eagar–Tsai melt-pool solution surface (finest table first); see lib/domain/eagar-tsai-surface.ts",
+  tables,
 };
 const target = path.join(import.meta.dirname, "../../lib/domain/data/eagar-tsai-surface.json");
-writeFileSync(target, `${JSON.stringify(rounded)}\n`);
-process.stdout.write(`\nwrote ${target}\n`);
+writeFileSync(target, `${JSON.stringify(file)}\n`);
+process.stdout.write(`\nwrote ${target} in ${((Date.now() - started) / 1000).toFixed(0)} s\n`);
