@@ -133,19 +133,22 @@ function sameProcess(x: CheckRecord, y: CheckRecord, t: DuplicateTolerances): bo
 }
 
 /**
- * What two records are to each other: an exact duplicate, a near duplicate, a label conflict, or
- * nothing (null). Exact keys may be passed in when already computed.
+ * What two records are to each other: an exact duplicate (same exact key and, when both have P
+ * and v, process values within tolerance), a near duplicate, a label conflict, or nothing (null).
+ * `keyOf` lets a caller cache exact keys.
  *
  * @example
  * classifyPair(row, { ...row, id: 2 }, tolerances); // "exact"
  * classifyPair(row, { ...row, id: 2, sourceId: 9 }, tolerances); // "near" (republished elsewhere)
  * classifyPair(row, { ...row, id: 2, outcome: "keyhole" }, tolerances); // "label_conflict"
  */
-export function classifyPair(x: CheckRecord, y: CheckRecord, t: DuplicateTolerances, keys?: { x: string; y: string }): PairKind | null {
-  const kx = keys?.x ?? exactKeyOf(x);
-  const ky = keys?.y ?? exactKeyOf(y);
-  if (kx === ky) return "exact";
-  if (x.alloyKey !== y.alloyKey || !sameProcess(x, y, t) || !sameComposition(x.components, y.components, t.compositionWtPct)) return null;
+export function classifyPair(x: CheckRecord, y: CheckRecord, t: DuplicateTolerances, keyOf: (r: CheckRecord) => string = exactKeyOf): PairKind | null {
+  if (x.alloyKey !== y.alloyKey) return null;
+  const hasPowerAndSpeed = x.laserPowerW !== null && y.laserPowerW !== null && x.scanSpeedMmPerS !== null && y.scanSpeedMmPerS !== null;
+  if (!hasPowerAndSpeed) return keyOf(x) === keyOf(y) ? "exact" : null;
+  if (!sameProcess(x, y, t)) return null;
+  if (keyOf(x) === keyOf(y)) return "exact";
+  if (!sameComposition(x.components, y.components, t.compositionWtPct)) return null;
   const bothKnown = knownOutcome(x.outcome) && knownOutcome(y.outcome);
   if (bothKnown && x.outcome !== y.outcome) return "label_conflict";
   const dx = x.relativeDensityPct;
@@ -174,7 +177,13 @@ const MIN_CELL = 1e-6;
  */
 export function findDuplicatePairs(records: readonly CheckRecord[], t: DuplicateTolerances, options: FindDuplicatesOptions = {}): DuplicatePair[] {
   const isDistinct = options.isDistinct ?? (() => false);
-  const keys = records.map(exactKeyOf);
+  // Exact keys are built only for records that meet a candidate: most records never do.
+  const keys = new Map<CheckRecord, string>();
+  const keyOf = (r: CheckRecord) => {
+    let k = keys.get(r);
+    if (k === undefined) keys.set(r, (k = exactKeyOf(r)));
+    return k;
+  };
   const pairs: DuplicatePair[] = [];
   const push = (i: number, j: number, kind: PairKind) => {
     const a = Math.min(records[i]!.id, records[j]!.id);
@@ -182,61 +191,77 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
     if (!isDistinct(a, b)) pairs.push({ a, b, kind });
   };
 
-  // Records without P or v: exact duplicates only, by key.
-  const byKey = new Map<string, number[]>();
   const powerRel = t.powerRelPct / 100;
   const speedRel = t.speedRelPct / 100;
   const wP = Math.max(Math.log1p(powerRel), MIN_CELL);
   const wV = Math.max(Math.log1p(speedRel), MIN_CELL);
-  const grid = new Map<string, Map<number, number[]>>();
-  const cellKey = (p: number, v: number) => p * 4_000_003 + v;
-  let lowestPowerCell = Number.POSITIVE_INFINITY;
+  const pCell = new Float64Array(records.length);
+  const vCell = new Float64Array(records.length);
+  // Records without P or v can only be exact duplicates, found by key.
+  const byKey = new Map<string, number[]>();
+  // Per alloy: the cell range seen, then a map from a small integer cell number to record indices.
+  const alloys = new Map<string, { members: number[]; pMin: number; pMax: number; vMin: number; vMax: number }>();
   for (let i = 0; i < records.length; i++) {
     const r = records[i]!;
     const p = r.laserPowerW;
     const v = r.scanSpeedMmPerS;
     if (p === null || v === null || !(p > 0) || !(v > 0)) {
-      const list = byKey.get(keys[i]!);
+      const k = keyOf(r);
+      const list = byKey.get(k);
       if (list) list.push(i);
-      else byKey.set(keys[i]!, [i]);
+      else byKey.set(k, [i]);
+      pCell[i] = Number.NaN;
       continue;
     }
-    let cells = grid.get(r.alloyKey);
-    if (!cells) grid.set(r.alloyKey, (cells = new Map()));
-    const pCell = Math.floor(Math.log(p) / wP);
-    if (pCell < lowestPowerCell) lowestPowerCell = pCell;
-    const k = cellKey(pCell, Math.floor(Math.log(v) / wV));
-    const list = cells.get(k);
-    if (list) list.push(i);
-    else cells.set(k, [i]);
+    const pc = Math.floor(Math.log(p) / wP);
+    const vc = Math.floor(Math.log(v) / wV);
+    pCell[i] = pc;
+    vCell[i] = vc;
+    const g = alloys.get(r.alloyKey);
+    if (!g) alloys.set(r.alloyKey, { members: [i], pMin: pc, pMax: pc, vMin: vc, vMax: vc });
+    else {
+      g.members.push(i);
+      if (pc < g.pMin) g.pMin = pc;
+      if (pc > g.pMax) g.pMax = pc;
+      if (vc < g.vMin) g.vMin = vc;
+      if (vc > g.vMax) g.vMax = vc;
+    }
   }
   for (const list of byKey.values()) {
     for (let x = 0; x < list.length; x++) for (let y = x + 1; y < list.length; y++) push(list[x]!, list[y]!, "exact");
   }
 
-  for (let i = 0; i < records.length; i++) {
-    const r = records[i]!;
-    const p = r.laserPowerW;
-    const v = r.scanSpeedMmPerS;
-    if (p === null || v === null || !(p > 0) || !(v > 0)) continue;
-    const cells = grid.get(r.alloyKey)!;
-    // The box that holds every power within tolerance of p (either side's relative bound).
-    const pLo = Math.min(p - t.powerAbsW, p * (1 - powerRel)) - 1e-9;
-    const pHi = Math.max(p + t.powerAbsW, powerRel < 1 ? p / (1 - powerRel) : Number.POSITIVE_INFINITY) + 1e-9;
-    const vLo = v * (1 - speedRel) - 1e-9;
-    const vHi = (speedRel < 1 ? v / (1 - speedRel) : v * 1e6) + 1e-9;
-    const p0 = Math.floor(Math.log(Math.max(pLo, Number.MIN_VALUE)) / wP);
-    const p1 = Math.floor(Math.log(pHi) / wP);
-    const v0 = Math.floor(Math.log(Math.max(vLo, Number.MIN_VALUE)) / wV);
-    const v1 = Math.floor(Math.log(vHi) / wV);
-    for (let pc = Math.max(p0, lowestPowerCell); pc <= p1; pc++) {
-      for (let vc = v0; vc <= v1; vc++) {
-        const list = cells.get(cellKey(pc, vc));
-        if (!list) continue;
-        for (const j of list) {
-          if (j >= i) continue;
-          const kind = classifyPair(r, records[j]!, t, { x: keys[i]!, y: keys[j]! });
-          if (kind) push(j, i, kind);
+  for (const g of alloys.values()) {
+    const vSpan = g.vMax - g.vMin + 1;
+    const cells = new Map<number, number[]>();
+    for (const i of g.members) {
+      const c = (pCell[i]! - g.pMin) * vSpan + (vCell[i]! - g.vMin);
+      const list = cells.get(c);
+      if (list) list.push(i);
+      else cells.set(c, [i]);
+    }
+    for (const i of g.members) {
+      const r = records[i]!;
+      const p = r.laserPowerW!;
+      const v = r.scanSpeedMmPerS!;
+      // The box that holds every power within tolerance of p (either side's relative bound).
+      const pLo = Math.min(p - t.powerAbsW, p * (1 - powerRel)) - 1e-9;
+      const pHi = Math.max(p + t.powerAbsW, powerRel < 1 ? p / (1 - powerRel) : Number.POSITIVE_INFINITY) + 1e-9;
+      const vLo = v * (1 - speedRel) - 1e-9;
+      const vHi = (speedRel < 1 ? v / (1 - speedRel) : Number.POSITIVE_INFINITY) + 1e-9;
+      const p0 = Math.max(g.pMin, pLo > 0 ? Math.floor(Math.log(pLo) / wP) : g.pMin);
+      const p1 = Math.min(g.pMax, Math.floor(Math.log(pHi) / wP));
+      const v0 = Math.max(g.vMin, vLo > 0 ? Math.floor(Math.log(vLo) / wV) : g.vMin);
+      const v1 = Math.min(g.vMax, Math.floor(Math.log(vHi) / wV));
+      for (let pc = p0; pc <= p1; pc++) {
+        for (let vc = v0; vc <= v1; vc++) {
+          const list = cells.get((pc - g.pMin) * vSpan + (vc - g.vMin));
+          if (!list) continue;
+          for (const j of list) {
+            if (j >= i) continue;
+            const kind = classifyPair(r, records[j]!, t, keyOf);
+            if (kind) push(j, i, kind);
+          }
         }
       }
     }

@@ -88,8 +88,121 @@ export function isJudgedOutcome(outcome: string): boolean {
 }
 
 /**
+ * A k-d tree over the points of one alloy that share which coordinates they have. Coordinates are
+ * copied into a flat array (4 per point, tree order) so the search loop touches no objects.
+ */
+interface KdTree {
+  /** Record index of each point, in tree order. */
+  recordIndex: Int32Array;
+  /** Record id of each point, in tree order (ties are broken by id). */
+  ids: Float64Array;
+  /** 4 coordinates per point in tree order; NaN where missing. */
+  xs: Float64Array;
+  start: Int32Array;
+  end: Int32Array;
+  /** Split dimension, -1 for a leaf. */
+  dim: Int8Array;
+  split: Float64Array;
+  left: Int32Array;
+  right: Int32Array;
+}
+
+const LEAF_SIZE = 8;
+
+function coordOf(pt: Point, d: number): number {
+  return d === 0 ? pt.p : d === 1 ? pt.v : d === 2 ? (pt.h ?? Number.NaN) : (pt.t ?? Number.NaN);
+}
+
+/** Reorders order[lo, hi) so order[k] holds the point whose coordinate would be there sorted (quickselect). */
+function selectKth(order: Int32Array, coords: Float64Array, d: number, lo: number, hi: number, k: number): void {
+  let l = lo;
+  let r = hi - 1;
+  while (l < r) {
+    const pivot = coords[4 * order[(l + r) >> 1]! + d]!;
+    let i = l;
+    let j = r;
+    while (i <= j) {
+      while (coords[4 * order[i]! + d]! < pivot) i++;
+      while (coords[4 * order[j]! + d]! > pivot) j--;
+      if (i <= j) {
+        const tmp = order[i]!;
+        order[i] = order[j]!;
+        order[j] = tmp;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) r = j;
+    else if (k >= i) l = i;
+    else return;
+  }
+}
+
+function buildTree(pts: readonly Point[], dims: readonly number[], records: readonly CheckRecord[]): KdTree {
+  const n = pts.length;
+  const coords = new Float64Array(4 * n);
+  for (let i = 0; i < n; i++) for (let d = 0; d < 4; d++) coords[4 * i + d] = coordOf(pts[i]!, d);
+  const order = new Int32Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  const maxNodes = Math.max(1, 2 * Math.ceil(n / (LEAF_SIZE / 2)) + 1);
+  const start = new Int32Array(maxNodes);
+  const end = new Int32Array(maxNodes);
+  const dim = new Int8Array(maxNodes);
+  const split = new Float64Array(maxNodes);
+  const left = new Int32Array(maxNodes);
+  const right = new Int32Array(maxNodes);
+  let count = 0;
+  // Iterative build: a stack of (node, lo, hi).
+  const stack: [number, number, number][] = [[count++, 0, n]];
+  while (stack.length) {
+    const [node, lo, hi] = stack.pop()!;
+    start[node] = lo;
+    end[node] = hi;
+    dim[node] = -1;
+    if (hi - lo <= LEAF_SIZE) continue;
+    let bestDim = -1;
+    let bestSpread = 0;
+    for (const d of dims) {
+      let mn = Infinity;
+      let mx = -Infinity;
+      for (let i = lo; i < hi; i++) {
+        const x = coords[4 * order[i]! + d]!;
+        if (x < mn) mn = x;
+        if (x > mx) mx = x;
+      }
+      if (mx - mn > bestSpread) {
+        bestSpread = mx - mn;
+        bestDim = d;
+      }
+    }
+    if (bestDim < 0) continue; // all points equal: one leaf, however large
+    const mid = lo + ((hi - lo) >> 1);
+    selectKth(order, coords, bestDim, lo, hi, mid);
+    dim[node] = bestDim;
+    split[node] = coords[4 * order[mid]! + bestDim]!;
+    const l = count++;
+    const r = count++;
+    left[node] = l;
+    right[node] = r;
+    stack.push([l, lo, mid], [r, mid, hi]);
+  }
+  const recordIndex = new Int32Array(n);
+  const ids = new Float64Array(n);
+  const xs = new Float64Array(4 * n);
+  for (let i = 0; i < n; i++) {
+    const o = order[i]!;
+    recordIndex[i] = pts[o]!.index;
+    ids[i] = records[pts[o]!.index]!.id;
+    for (let d = 0; d < 4; d++) xs[4 * i + d] = coords[4 * o + d]!;
+  }
+  return { recordIndex, ids, xs, start, end, dim, split, left, right };
+}
+
+/**
  * For each record with a known outcome (or each of `targets`, if given), its up-to-k nearest
  * same-alloy records with a known outcome within the radius, nearest first (ties by id).
+ * Points are kept in k-d trees per alloy and per pattern of present coordinates (a missing hatch
+ * or layer is not compared), so a query visits a few leaves instead of every record.
  *
  * @example
  * nearestNeighbours(records, neighbourParamsFrom(defaultCheckSettings())).get(42);
@@ -99,45 +212,100 @@ export function nearestNeighbours(records: readonly CheckRecord[], params: Neigh
   const { radius, count } = params;
   if (!(radius > 0) || count < 1) throw new RangeError(`nearestNeighbours: radius and count must be positive, got ${radius} and ${count}`);
   const points: (Point | null)[] = records.map((r, i) => (isJudgedOutcome(r.outcome) ? toPoint(r, i, params.scale) : null));
-  const grids = new Map<string, Map<string, Point[]>>();
-  const cellOf = (pt: Point) => [Math.floor(pt.p / radius), Math.floor(pt.v / radius)] as const;
-  for (let i = 0; i < records.length; i++) {
-    const pt = points[i];
+
+  const groups = new Map<string, Point[][]>();
+  for (const pt of points) {
     if (!pt) continue;
-    const alloy = records[i]!.alloyKey;
-    let grid = grids.get(alloy);
-    if (!grid) grids.set(alloy, (grid = new Map()));
-    const [cp, cv] = cellOf(pt);
-    const key = `${cp},${cv}`;
-    const list = grid.get(key);
-    if (list) list.push(pt);
-    else grid.set(key, [pt]);
+    const alloy = records[pt.index]!.alloyKey;
+    let list = groups.get(alloy);
+    if (!list) groups.set(alloy, (list = [[], [], [], []]));
+    list[(pt.h === null ? 0 : 1) | (pt.t === null ? 0 : 2)]!.push(pt);
   }
+  const trees = new Map<string, KdTree[]>();
+  for (const [alloy, list] of groups) {
+    const built: KdTree[] = [];
+    list.forEach((pts, pattern) => {
+      if (pts.length) built.push(buildTree(pts, [0, 1, ...(pattern & 1 ? [2] : []), ...(pattern & 2 ? [3] : [])], records));
+    });
+    trees.set(alloy, built);
+  }
+
   const out = new Map<number, Neighbour[]>();
+  const bestD = new Float64Array(count);
+  const bestId = new Float64Array(count);
+  const bestIndex = new Int32Array(count);
+  const stack = new Int32Array(256);
+  const gaps = new Float64Array(256);
+  const q = new Float64Array(4);
   for (let i = 0; i < records.length; i++) {
     const r = records[i]!;
     if (targets && !targets.has(r.id)) continue;
     const pt = points[i];
     if (!pt) continue;
-    const grid = grids.get(r.alloyKey)!;
-    const [cp, cv] = cellOf(pt);
-    const found: Neighbour[] = [];
-    for (let dp = -1; dp <= 1; dp++) {
-      for (let dv = -1; dv <= 1; dv++) {
-        const list = grid.get(`${cp + dp},${cv + dv}`);
-        if (!list) continue;
-        for (const q of list) {
-          if (q.index === i) continue;
-          const d = distance(pt, q);
-          if (d <= radius) {
-            const other = records[q.index]!;
-            found.push({ id: other.id, outcome: other.outcome, distance: d });
+    for (let d = 0; d < 4; d++) q[d] = coordOf(pt, d);
+    const qh = !Number.isNaN(q[2]!);
+    const qt = !Number.isNaN(q[3]!);
+    let found = 0;
+    for (const tree of trees.get(r.alloyKey)!) {
+      const { xs, ids, start, end, dim, split, left, right } = tree;
+      let top = 0;
+      gaps[top] = 0;
+      stack[top++] = 0;
+      while (top > 0) {
+        const node = stack[--top]!;
+        // A far side is searched only if it can still hold something closer than the k-th best.
+        if (gaps[top]! > (found === count ? Math.min(radius, bestD[count - 1]!) : radius)) continue;
+        const nd = dim[node]!;
+        if (nd < 0) {
+          for (let k = start[node]!; k < end[node]!; k++) {
+            const index = tree.recordIndex[k]!;
+            if (index === i) continue;
+            const o = 4 * k;
+            let d2 = (q[0]! - xs[o]!) ** 2 + (q[1]! - xs[o + 1]!) ** 2;
+            const h = xs[o + 2]!;
+            if (qh && h === h) d2 += (q[2]! - h) ** 2;
+            const t = xs[o + 3]!;
+            if (qt && t === t) d2 += (q[3]! - t) ** 2;
+            const dist = Math.sqrt(d2);
+            if (dist > radius) continue;
+            const id = ids[k]!;
+            if (found === count && (dist > bestD[count - 1]! || (dist === bestD[count - 1]! && id > bestId[count - 1]!))) continue;
+            let at = found === count ? count - 1 : found++;
+            while (at > 0 && (bestD[at - 1]! > dist || (bestD[at - 1]! === dist && bestId[at - 1]! > id))) {
+              bestD[at] = bestD[at - 1]!;
+              bestId[at] = bestId[at - 1]!;
+              bestIndex[at] = bestIndex[at - 1]!;
+              at--;
+            }
+            bestD[at] = dist;
+            bestId[at] = id;
+            bestIndex[at] = index;
           }
+          continue;
         }
+        const active = nd < 2 || (nd === 2 ? qh : qt);
+        if (top + 2 > stack.length) throw new RangeError("nearestNeighbours: tree deeper than expected");
+        const parentGap = gaps[top]!;
+        if (!active) {
+          gaps[top] = parentGap;
+          stack[top++] = left[node]!;
+          gaps[top] = parentGap;
+          stack[top++] = right[node]!;
+          continue;
+        }
+        const delta = q[nd]! - split[node]!;
+        const near = delta < 0 ? left[node]! : right[node]!;
+        const far = delta < 0 ? right[node]! : left[node]!;
+        // The far side may hold points equal to the split value, so a zero gap is searched too.
+        gaps[top] = Math.max(parentGap, Math.abs(delta));
+        stack[top++] = far;
+        gaps[top] = parentGap;
+        stack[top++] = near;
       }
     }
-    found.sort((a, b) => a.distance - b.distance || a.id - b.id);
-    out.set(r.id, found.slice(0, count));
+    const list: Neighbour[] = new Array(found);
+    for (let k = 0; k < found; k++) list[k] = { id: bestId[k]!, outcome: records[bestIndex[k]!]!.outcome, distance: bestD[k]! };
+    out.set(r.id, list);
   }
   return out;
 }

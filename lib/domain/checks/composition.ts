@@ -8,7 +8,7 @@ import { fmt } from "./fields";
 import type { RecordRule } from "./types";
 
 const unknownAlloy: RecordRule = {
-  info: {
+  infos: [{
     code: "alloy.unknown",
     severity: "warning",
     title: "Unknown alloy without a composition",
@@ -16,7 +16,7 @@ const unknownAlloy: RecordRule = {
     source: "DOMAIN.md, \"Composition\" (named grades map to nominal compositions)",
     thresholdKeys: [],
     scope: "record",
-  },
+  }],
   check: (r) =>
     r.components.length === 0
       ? {
@@ -29,7 +29,7 @@ const unknownAlloy: RecordRule = {
 };
 
 const unknownElement: RecordRule = {
-  info: {
+  infos: [{
     code: "composition.unknown_element",
     severity: "error",
     title: "Unknown element symbol",
@@ -37,7 +37,7 @@ const unknownElement: RecordRule = {
     source: "IUPAC periodic table (element symbols); DOMAIN.md: unknown element symbols are errors",
     thresholdKeys: [],
     scope: "record",
-  },
+  }],
   check: (r) => {
     const bad = r.components.filter((c) => !getElement(c.element)).map((c) => c.element);
     if (!bad.length) return null;
@@ -51,7 +51,7 @@ const unknownElement: RecordRule = {
 };
 
 const compositionSum: RecordRule = {
-  info: {
+  infos: [{
     code: "composition.sum",
     severity: "error",
     title: "Composition does not sum to 100",
@@ -59,7 +59,7 @@ const compositionSum: RecordRule = {
     source: "DOMAIN.md, \"Composition\": 100 ± 0.5 wt% (common practice)",
     thresholdKeys: ["composition.sumTolerancePct"],
     scope: "record",
-  },
+  }],
   check: (r, s) => {
     if (!r.components.length) return null;
     const sum = r.components.reduce((acc, c) => acc + c.amount, 0);

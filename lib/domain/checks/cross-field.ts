@@ -8,7 +8,7 @@ import { fmt } from "./fields";
 import type { RecordRule } from "./types";
 
 const powderOrder: RecordRule = {
-  info: {
+  infos: [{
     code: "powder.order",
     severity: "error",
     title: "Powder sizes out of order",
@@ -16,7 +16,7 @@ const powderOrder: RecordRule = {
     source: "definition of the cumulative size percentiles (ISO 9276-2; common practice)",
     thresholdKeys: [],
     scope: "record",
-  },
+  }],
   check: (r) => {
     const sizes = [
       ["D10", r.powderD10Um],
@@ -40,7 +40,7 @@ const powderOrder: RecordRule = {
 };
 
 const spotVersusHatch: RecordRule = {
-  info: {
+  infos: [{
     code: "geometry.spot_hatch",
     severity: "warning",
     title: "Spot diameter far from the hatch spacing",
@@ -48,7 +48,7 @@ const spotVersusHatch: RecordRule = {
     source: "common practice; bounds from memory, configurable",
     thresholdKeys: ["geometry.spotToHatch.max", "geometry.hatchToSpot.max"],
     scope: "record",
-  },
+  }],
   check: (r, s) => {
     const d = r.spotDiameterUm;
     const h = r.hatchSpacingUm;
@@ -77,7 +77,7 @@ const spotVersusHatch: RecordRule = {
 };
 
 const energyWindow: RecordRule = {
-  info: {
+  infos: [{
     code: "energy.volumetric",
     severity: "warning",
     title: "Volumetric energy density outside the usual window",
@@ -85,7 +85,7 @@ const energyWindow: RecordRule = {
     source: "E_v = P/(v·h·t) (common practice); window from DOMAIN.md plausible ranges (from memory)",
     thresholdKeys: ["energy.volumetric.min", "energy.volumetric.max"],
     scope: "record",
-  },
+  }],
   check: (r, s) => {
     const ev = r.volumetricEnergyJMm3 ?? energyDensities(r).volumetricJPerMm3;
     if (ev === null || !Number.isFinite(ev)) return null;

@@ -38,8 +38,12 @@ export function canonicalValue(record: CheckRecord, info: FieldInfo): number | n
 
 /** Number formatting for messages: up to 4 significant digits, thousands separated. @example fmt(1234.567); // "1,235" */
 export function fmt(value: number): string {
-  const rounded = Number(value.toPrecision(4));
-  return rounded.toLocaleString("en-US", { maximumFractionDigits: 6 });
+  if (!Number.isFinite(value)) return String(value);
+  const text = String(Number(value.toPrecision(4)));
+  if (text.includes("e")) return text;
+  const [whole = "", fraction] = text.split(".");
+  const grouped = whole.replace(/\B(?=(\d{3})+(?!\d))/g, ",");
+  return fraction === undefined ? grouped : `${grouped}.${fraction}`;
 }
 
 /** Sentence case. @example capitalize("scan speed"); // "Scan speed" */

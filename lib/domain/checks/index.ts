@@ -25,7 +25,7 @@ export const RECORD_RULES: readonly RecordRule[] = [...VALUE_RULES, ...CROSS_FIE
 
 /** Every rule, in the order the rules page lists them. */
 export const RULE_CATALOGUE: readonly RuleInfo[] = [
-  ...RECORD_RULES.map((r) => r.info),
+  ...RECORD_RULES.flatMap((r) => r.infos),
   PHYSICS_RULE_INFO,
   DUPLICATE_RULE_INFO.exact,
   DUPLICATE_RULE_INFO.near,

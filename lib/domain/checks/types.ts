@@ -91,8 +91,11 @@ export interface RuleInfo {
   scope: "record" | "collection";
 }
 
-/** A rule judged from one record alone. */
+/**
+ * Rules judged from one record alone. Closely related rules (the hard limit, unit slip and range
+ * of one field, say) are judged together in one pass and give at most one finding between them.
+ */
 export interface RecordRule {
-  info: RuleInfo;
+  infos: readonly RuleInfo[];
   check: (record: CheckRecord, settings: CheckSettings) => Finding | null;
 }

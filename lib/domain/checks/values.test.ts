@@ -88,7 +88,7 @@ describe("value rules on a record", () => {
   });
 
   test("every field has a limit, slip and range rule with distinct codes", () => {
-    const all = VALUE_RULES.map((r) => r.info.code);
+    const all = VALUE_RULES.flatMap((r) => r.infos.map((i) => i.code));
     expect(new Set(all).size).toBe(all.length);
     expect(all.length).toBe(30);
   });

@@ -6,7 +6,7 @@
 import { settingOf, type CheckSettings } from "../check-settings";
 import { CANONICAL_UNIT, checkHardLimit, HARD_LIMITS, toCanonical, unitOptions, type Quantity } from "../units";
 import { canonicalValue, capitalize, CHECKED_FIELDS, fmt, type FieldInfo } from "./fields";
-import type { CheckRecord, RecordRule } from "./types";
+import type { CheckRecord, Finding, RecordRule, RuleInfo } from "./types";
 
 /**
  * The standard factors a unit slip is made of (DOMAIN.md, "Unit slips"): × or ÷ 1,000 (kW/W,
@@ -38,10 +38,6 @@ function inRange(value: number, min: number, max: number): boolean {
   return value >= min && value <= max;
 }
 
-function rangeOf(settings: CheckSettings, quantity: Quantity): { min: number; max: number } {
-  return { min: settingOf(settings, `range.${quantity}.min`), max: settingOf(settings, `range.${quantity}.max`) };
-}
-
 /**
  * Units the value would be plausible in, had it been entered in them instead of the unit it was
  * entered in, reached by one standard factor; best first (closest to the middle of the range on a
@@ -67,11 +63,29 @@ export function unitSlipCandidates(canonical: number, enteredUnit: string, quant
   return out.sort((a, b) => Math.abs(Math.log(a.canonicalValue / centre)) - Math.abs(Math.log(b.canonicalValue / centre)));
 }
 
-function limitRule(info: FieldInfo): RecordRule {
+const PLAUSIBLE_SOURCE = "DOMAIN.md plausible ranges (common practice, from memory)";
+
+/** Plausible ranges of a settings version, read once per version rather than once per value. */
+const rangeCache = new WeakMap<CheckSettings, Map<Quantity, { min: number; max: number }>>();
+function rangeOf(settings: CheckSettings, quantity: Quantity): { min: number; max: number } {
+  let m = rangeCache.get(settings);
+  if (!m) rangeCache.set(settings, (m = new Map()));
+  let r = m.get(quantity);
+  if (!r) m.set(quantity, (r = { min: settingOf(settings, `range.${quantity}.min`), max: settingOf(settings, `range.${quantity}.max`) }));
+  return r;
+}
+
+function insideHardLimit(value: number, quantity: Quantity): boolean {
+  const { min, minInclusive, max } = HARD_LIMITS[quantity];
+  return (minInclusive ? value >= min : value > min) && (max === null || value <= max);
+}
+
+function infosOf(info: FieldInfo): RuleInfo[] {
   const limit = HARD_LIMITS[info.quantity];
   const unit = CANONICAL_UNIT[info.quantity];
-  return {
-    info: {
+  const density = info.quantity === "relativeDensity";
+  return [
+    {
       code: `limit.${info.slug}`,
       severity: "error",
       title: `${capitalize(info.label)} outside its hard limit`,
@@ -80,99 +94,80 @@ function limitRule(info: FieldInfo): RecordRule {
       thresholdKeys: [],
       scope: "record",
     },
-    check: (record) => {
-      const value = canonicalValue(record, info);
-      if (value === null) return null;
-      const problem = checkHardLimit(value, info.quantity);
-      if (!problem) return null;
-      return {
-        code: `limit.${info.slug}`,
-        severity: "error",
-        message: `${problem} Correct the value or its unit from the source, or reject the record.`,
-        details: { field: info.field, inputs: { [info.key]: value }, thresholds: { min: limit.min, ...(limit.max !== null ? { max: limit.max } : {}) } },
-      };
-    },
-  };
-}
-
-function slipRule(info: FieldInfo): RecordRule {
-  const code = `unit_slip.${info.slug}`;
-  const unit = CANONICAL_UNIT[info.quantity];
-  return {
-    info: {
-      code,
+    {
+      code: `unit_slip.${info.slug}`,
       severity: "warning",
       title: `${capitalize(info.label)}: likely unit slip`,
-      description: `The ${info.label} is outside its plausible range but lands inside it after one standard factor (× or ÷ 1,000, × 25.4, ÷ 60${info.quantity === "relativeDensity" ? ", or × 100 for a fraction typed as %" : ""}). Review offers the suggested unit as a one-step fix; waive it if the source really says so.`,
-      source: "DOMAIN.md, \"Unit slips\" (the commonest error in compiled data; common practice)",
+      description: `The ${info.label} is outside its plausible range but lands inside it after one standard factor (× or ÷ 1,000, × 25.4, ÷ 60${density ? ", or × 100 for a fraction typed as %" : ""}). Review offers the suggested unit as a one-step fix; waive it if the source really says so.`,
+      source: 'DOMAIN.md, "Unit slips" (the commonest error in compiled data; common practice)',
       thresholdKeys: [`range.${info.quantity}.min`, `range.${info.quantity}.max`],
       scope: "record",
     },
-    check: (record, settings) => {
-      const value = canonicalValue(record, info);
-      if (value === null || checkHardLimit(value, info.quantity) !== null) return null;
-      const range = rangeOf(settings, info.quantity);
-      const enteredUnit = enteredUnitOf(record, info);
-      const candidates = unitSlipCandidates(value, enteredUnit, info.quantity, range);
-      const best = candidates[0];
-      if (!best) return null;
-      const text = record.entered[info.field]?.text ?? String(value);
-      return {
-        code,
-        severity: "warning",
-        message: `${capitalize(info.label)} ${text} ${enteredUnit} (${fmt(value)} ${unit}) is outside the plausible ${fmt(range.min)}–${fmt(range.max)} ${unit}; in ${best.unit} it would be ${fmt(best.canonicalValue)} ${unit}. If the source means ${best.unit}, change the unit; otherwise waive with the reason.`,
-        details: {
-          field: info.field,
-          inputs: { [info.key]: value, enteredText: text, enteredUnit },
-          thresholds: { min: range.min, max: range.max },
-          candidates: candidates.map((c) => ({ unit: c.unit, canonicalValue: c.canonicalValue })),
-          suggestedFix: { field: info.field, value: text, unit: best.unit, canonicalValue: best.canonicalValue },
-        },
-      };
-    },
-  };
-}
-
-function rangeRule(info: FieldInfo): RecordRule {
-  const code = `range.${info.slug}`;
-  const unit = CANONICAL_UNIT[info.quantity];
-  return {
-    info: {
-      code,
+    {
+      code: `range.${info.slug}`,
       severity: "warning",
       title: `${capitalize(info.label)} outside the plausible range`,
-      description: `The ${info.label} is outside the range usual for LPBF. It may be real (an unusual machine or study); check it against the source, correct it, or waive with the reason.${info.quantity === "relativeDensity" ? " Above 100 % usually means the reference density is off." : ""}`,
+      description: `The ${info.label} is outside the range usual for LPBF. It may be real (an unusual machine or study); check it against the source, correct it, or waive with the reason.${density ? " Above 100 % usually means the reference density is off." : ""}`,
       source: PLAUSIBLE_SOURCE,
       thresholdKeys: [`range.${info.quantity}.min`, `range.${info.quantity}.max`],
       scope: "record",
     },
-    check: (record, settings) => {
-      const value = canonicalValue(record, info);
-      if (value === null || checkHardLimit(value, info.quantity) !== null) return null;
-      const range = rangeOf(settings, info.quantity);
-      if (inRange(value, range.min, range.max)) return null;
-      if (unitSlipCandidates(value, enteredUnitOf(record, info), info.quantity, range).length) return null;
-      const low = value < range.min;
-      let hint = "Check it against the source; correct it, or waive with the reason if the source really says so.";
-      if (info.quantity === "relativeDensity" && !low) hint = "A relative density above 100 % usually means the reference (theoretical) density is off: check which reference the source used, then correct or waive.";
-      const entered = record.entered[info.field];
-      return {
-        code,
-        severity: "warning",
-        message: `${capitalize(info.label)} ${fmt(value)} ${unit} is ${low ? "below" : "above"} the plausible ${fmt(range.min)}–${fmt(range.max)} ${unit}. ${hint}`,
-        details: {
-          field: info.field,
-          inputs: { [info.key]: value, enteredText: entered?.text ?? null, enteredUnit: entered?.unit ?? null },
-          thresholds: { min: range.min, max: range.max },
-          suggestedFix: { field: info.field, value: entered?.text ?? String(value), unit: entered?.unit || unit, canonicalValue: value },
-        },
-      };
+  ];
+}
+
+/** The one finding (or none) of a field: hard limit first, then unit slip, then range. */
+function judgeValue(record: CheckRecord, settings: CheckSettings, info: FieldInfo): Finding | null {
+  const value = canonicalValue(record, info);
+  if (value === null) return null;
+  const unit = CANONICAL_UNIT[info.quantity];
+  if (!insideHardLimit(value, info.quantity)) {
+    const limit = HARD_LIMITS[info.quantity];
+    return {
+      code: `limit.${info.slug}`,
+      severity: "error",
+      message: `${checkHardLimit(value, info.quantity) ?? ""} Correct the value or its unit from the source, or reject the record.`,
+      details: { field: info.field, inputs: { [info.key]: value }, thresholds: { min: limit.min, ...(limit.max !== null ? { max: limit.max } : {}) } },
+    };
+  }
+  const range = rangeOf(settings, info.quantity);
+  if (value >= range.min && value <= range.max) return null;
+  const entered = record.entered[info.field];
+  const enteredUnit = enteredUnitOf(record, info);
+  const text = entered?.text ?? String(value);
+  const best = unitSlipCandidates(value, enteredUnit, info.quantity, range);
+  if (best[0]) {
+    const b = best[0];
+    return {
+      code: `unit_slip.${info.slug}`,
+      severity: "warning",
+      message: `${capitalize(info.label)} ${text} ${enteredUnit} (${fmt(value)} ${unit}) is outside the plausible ${fmt(range.min)}–${fmt(range.max)} ${unit}; in ${b.unit} it would be ${fmt(b.canonicalValue)} ${unit}. If the source means ${b.unit}, change the unit; otherwise waive with the reason.`,
+      details: {
+        field: info.field,
+        inputs: { [info.key]: value, enteredText: text, enteredUnit },
+        thresholds: { min: range.min, max: range.max },
+        candidates: best.map((c) => ({ unit: c.unit, canonicalValue: c.canonicalValue })),
+        suggestedFix: { field: info.field, value: text, unit: b.unit, canonicalValue: b.canonicalValue },
+      },
+    };
+  }
+  const low = value < range.min;
+  let hint = "Check it against the source; correct it, or waive with the reason if the source really says so.";
+  if (info.quantity === "relativeDensity" && !low) hint = "A relative density above 100 % usually means the reference (theoretical) density is off: check which reference the source used, then correct or waive.";
+  return {
+    code: `range.${info.slug}`,
+    severity: "warning",
+    message: `${capitalize(info.label)} ${fmt(value)} ${unit} is ${low ? "below" : "above"} the plausible ${fmt(range.min)}–${fmt(range.max)} ${unit}. ${hint}`,
+    details: {
+      field: info.field,
+      inputs: { [info.key]: value, enteredText: entered?.text ?? null, enteredUnit: entered?.unit ?? null },
+      thresholds: { min: range.min, max: range.max },
+      suggestedFix: { field: info.field, value: text, unit: enteredUnit, canonicalValue: value },
     },
   };
 }
 
-const PLAUSIBLE_SOURCE = "DOMAIN.md plausible ranges (common practice, from memory)";
-
-/** Hard-limit, unit-slip and range rules for every entered field. */
-export const VALUE_RULES: readonly RecordRule[] = CHECKED_FIELDS.flatMap((info) => [limitRule(info), slipRule(info), rangeRule(info)]);
-
+/** Hard-limit, unit-slip and range rules of every entered field, one pass per field. */
+export const VALUE_RULES: readonly RecordRule[] = CHECKED_FIELDS.map((info) => ({
+  infos: infosOf(info),
+  check: (record: CheckRecord, settings: CheckSettings) => judgeValue(record, settings, info),
+}));
