@@ -5,6 +5,7 @@ import type { BenchFigure, BenchSuite } from "./types";
 
 const SUITES: Record<string, () => Promise<BenchSuite>> = {
   records: async () => (await import("./records.bench")).recordsBench,
+  import: async () => (await import("./import.bench")).importBench,
   meltpool: async () => (await import("./meltpool.bench")).meltpoolBench,
 };
 

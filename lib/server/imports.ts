@@ -173,10 +173,11 @@ export interface ImportOptions {
 }
 
 export interface ImportProgress {
-  phase: "reading" | "writing" | "done";
+  /** "reading": rows are read, checked and written as they come; "done": committed or rolled back. */
+  phase: "reading" | "done";
   rowsRead: number;
   rowsWritten: number;
-  /** Rows to write, once known. */
+  /** Rows written in the end, once known. */
   rowsTotal: number | null;
 }
 
@@ -227,10 +228,10 @@ export interface ImportCommit {
   mappingIssues: MappingIssue[];
 }
 
-/** A row headed for a source still to be created from its DOI. */
+/** Stands in for a source the preview has not created (a DOI not yet in the collection). */
 const PENDING_SOURCE = 2_147_483_647;
 const PROGRESS_EVERY = 2000;
-const WRITE_CHUNK = 5000;
+const WRITE_CHUNK = 2000;
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
 
@@ -238,10 +239,23 @@ function cancelled(signal: AbortSignal | undefined): boolean {
   return signal?.aborted === true;
 }
 
+/** Present when the import writes: rows go to the database while the table is read, inside one transaction. */
+interface Writer {
+  db: SqliteDatabase;
+  runId: number;
+  actor: Actor;
+  at: string;
+  fileName: string;
+  /** Keep writing after a row with errors (the user chose to leave such rows out). */
+  excludeErrors: boolean;
+  ids: { row: number; id: number }[];
+  createdSources: { doi: string | null; url: string | null; id: number }[];
+}
+
 interface Analysed {
   analysis: ImportAnalysis;
-  prepared: (PreparedBulkRow & { sourceKey: string | null })[];
-  defaultSource: { id: number | null; doi: string | null };
+  /** Rows that passed every check (written when there is a writer). */
+  validRows: number;
 }
 
 const FIELD_KEY: Record<string, string> = {
@@ -249,7 +263,26 @@ const FIELD_KEY: Record<string, string> = {
   preheat: "preheatC", powderD10: "powderD10Um", powderD50: "powderD50Um", powderD90: "powderD90Um", relativeDensity: "relativeDensityPct",
 };
 
-async function analyse(input: TableInput, options: ImportOptions, db: SqliteDatabase): Promise<Result<Analysed> | "cancelled"> {
+function createPlaceholderSource(w: Writer, use: ImportSourceUse): number {
+  const title = use.doi ? `Source with DOI ${use.doi}` : `Source at ${use.url}`.slice(0, 500);
+  const id = insertPlaceholderSourceRaw(
+    w.db,
+    { kind: "journal_article", title, titleKey: titleKey(title), doi: use.doi, url: use.url, notes: `Created by importing ${w.fileName} (import run ${w.runId}), known only by its ${use.doi ? "DOI" : "web address"}: complete the title, authors, year and kind.` },
+    w.actor.id,
+    w.at,
+  );
+  appendAuditRaw(w.db, { actorId: w.actor.id, actorName: w.actor.name, action: "create", entityType: "source", entityId: id, after: { doi: use.doi, url: use.url, title, createdBy: `import run ${w.runId}` }, at: w.at });
+  w.createdSources.push({ doi: use.doi, url: use.url, id });
+  return id;
+}
+
+/**
+ * Reads the table row by row: maps, checks and (with a writer) writes each row, holding only the
+ * rows of the current write chunk. Every problem is collected; with a writer and without
+ * excludeErrors, writing stops at the first row with an error (the caller then rolls back) while
+ * checking goes on, so the user sees every problem at once.
+ */
+async function analyse(input: TableInput, options: ImportOptions, db: SqliteDatabase, writer: Writer | null): Promise<Result<Analysed> | "cancelled"> {
   let table: Awaited<ReturnType<typeof openTable>>;
   try {
     table = await openTable(input);
@@ -262,27 +295,54 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
   // default source
   let defaultSource: { id: number | null; doi: string | null } = { id: null, doi: null };
   if (options.sourceId != null) {
-    if (!sourceExistsRaw(db, options.sourceId)) return fail("invalid_input", `Source ${options.sourceId} does not exist; nothing was read.`, { fieldErrors: { sourceId: [`Source ${options.sourceId} does not exist.`] } });
+    if (!sourceExistsRaw(db, options.sourceId)) {
+      table.close();
+      return fail("invalid_input", `Source ${options.sourceId} does not exist; nothing was read.`, { fieldErrors: { sourceId: [`Source ${options.sourceId} does not exist.`] } });
+    }
     defaultSource = { id: options.sourceId, doi: null };
   } else if (options.sourceDoi) {
     const doi = normalizeDoi(options.sourceDoi);
-    if (!doi) return fail("invalid_input", `"${options.sourceDoi}" is not a DOI (it should look like 10.5555/abc).`, { fieldErrors: { sourceDoi: ["Not a DOI."] } });
+    if (!doi) {
+      table.close();
+      return fail("invalid_input", `"${options.sourceDoi}" is not a DOI (it should look like 10.5555/abc).`, { fieldErrors: { sourceDoi: ["Not a DOI."] } });
+    }
     defaultSource = { id: sourceIdsByDoiRaw(db, [doi]).get(doi) ?? null, doi };
   }
 
   const mapping = resolveMapping(head.headers, options.mapping, { requireSource: defaultSource.id === null && defaultSource.doi === null });
   const problems: RowProblem[] = [];
-  const prepared: Analysed["prepared"] = [];
   const sample: PreviewRow[] = [];
   const sampleSize = options.sampleSize ?? 50;
   const sources = new Map<string, ImportSourceUse>();
   const errorRows = new Set<number>();
   let rowCount = 0;
   let blankRows = 0;
+  let validRows = 0;
   let row = 0;
   let headerChecked = false;
+  let writing = writer !== null;
   const firstRows: string[][] = [];
   const location = input.kind === "pdf_table" ? pdfLocation(input) : null;
+  const pending: PreparedBulkRow[] = [];
+  const materials = new Map<string, number>();
+
+  const flush = () => {
+    if (!writer || !pending.length) return;
+    const ids = writePreparedRows(writer.db, pending, writer.actor.id, writer.at, { importFile: writer.fileName, importRunId: writer.runId, materials });
+    pending.forEach((p, i) => writer.ids.push({ row: p.row, id: ids[i]! }));
+    pending.length = 0;
+  };
+
+  const sourceFor = (key: string): ImportSourceUse => {
+    let use = sources.get(key);
+    if (!use) {
+      const doi = key.startsWith("doi:") ? key.slice(4) : null;
+      const url = key.startsWith("url:") ? key.slice(4) : null;
+      use = { key, doi, url, sourceId: doi ? (sourceIdsByDoiRaw(db, [doi]).get(doi) ?? null) : sourceIdByUrlRaw(db, url!), rows: 0 };
+      sources.set(key, use);
+    }
+    return use;
+  };
 
   const handle = (cells: string[]) => {
     row++;
@@ -292,23 +352,17 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
       return;
     }
     rowCount++;
-    const rowProblems = [...mapped.problems];
+    const rowProblems = mapped.problems;
     const key = mapped.doi ? `doi:${mapped.doi}` : mapped.sourceUrl ? `url:${mapped.sourceUrl}` : defaultSource.id === null && defaultSource.doi ? `doi:${defaultSource.doi}` : null;
     let sourceId: number | null = key ? null : defaultSource.id;
-    let pendingKey: string | null = null;
+    let pendingLabel: string | null = null;
     if (key) {
-      let use = sources.get(key);
-      if (!use) {
-        const doi = key.startsWith("doi:") ? key.slice(4) : null;
-        const url = key.startsWith("url:") ? key.slice(4) : null;
-        use = { key, doi, url, sourceId: doi ? (sourceIdsByDoiRaw(db, [doi]).get(doi) ?? null) : sourceIdByUrlRaw(db, url!), rows: 0 };
-        sources.set(key, use);
-      }
+      const use = sourceFor(key);
       use.rows++;
       sourceId = use.sourceId;
-      if (sourceId === null) pendingKey = key;
+      if (sourceId === null) pendingLabel = use.doi ?? use.url;
     }
-    if (sourceId === null && pendingKey === null && !rowProblems.some((p) => p.field === "doi")) {
+    if (sourceId === null && pendingLabel === null && !rowProblems.some((p) => p.field === "doi")) {
       rowProblems.push({ row, field: "doi", severity: "error", message: "No source for this row: its DOI cell is empty and no source was chosen for the import." });
     }
     const recordInput = {
@@ -319,18 +373,31 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
     const checked = prepareBulkRow(recordInput, row);
     if (!checked.ok) for (const e of checked.errors) rowProblems.push({ row, field: e.field, severity: "error", message: e.message });
     const rowHasError = rowProblems.some((p) => p.severity === "error");
-    if (rowHasError) errorRows.add(row);
-    else if (checked.ok) prepared.push({ ...checked.prepared, sourceKey: pendingKey });
-    problems.push(...rowProblems);
+    if (rowHasError) {
+      errorRows.add(row);
+      if (writer && !writer.excludeErrors) writing = false;
+    } else if (checked.ok && (sourceId !== null || pendingLabel !== null)) {
+      validRows++;
+      if (writing && writer) {
+        if (sourceId === null && key) {
+          const use = sources.get(key)!;
+          use.sourceId = createPlaceholderSource(writer, use);
+          checked.prepared.write.sourceId = use.sourceId;
+        }
+        pending.push(checked.prepared);
+        if (pending.length >= WRITE_CHUNK) flush();
+      }
+    }
+    if (rowProblems.length) problems.push(...rowProblems);
     if (sample.length < sampleSize) {
       const values: Record<string, number | null> = {};
-      if (checked.ok) for (const [f, key] of Object.entries(FIELD_KEY)) values[f] = (checked.prepared.write as unknown as Record<string, number | null>)[key] ?? null;
+      if (checked.ok) for (const [f, k] of Object.entries(FIELD_KEY)) values[f] = (checked.prepared.write as unknown as Record<string, number | null>)[k] ?? null;
       sample.push({
         row,
         cells,
         values,
         outcome: mapped.input.outcome,
-        sourceLabel: sourceId !== null ? `source ${sourceId}` : pendingKey ? `new source (${pendingKey.slice(4)})` : null,
+        sourceLabel: sourceId !== null ? `source ${sourceId}` : pendingLabel ? `new source (${pendingLabel})` : null,
         problems: rowProblems,
       });
     }
@@ -350,7 +417,7 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
       }
       handle(cells);
       if (row % PROGRESS_EVERY === 0) {
-        options.onProgress?.({ phase: "reading", rowsRead: row, rowsWritten: 0, rowsTotal: null });
+        options.onProgress?.({ phase: "reading", rowsRead: row, rowsWritten: writer?.ids.length ?? 0, rowsTotal: null });
         await yieldToLoop();
         if (cancelled(options.signal)) return "cancelled";
       }
@@ -360,6 +427,7 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
       checkHeader(head, firstRows);
       if (!hasMappingErrors(mapping.issues)) for (const c of firstRows) handle(c);
     }
+    if (writing) flush();
   } catch (error) {
     if (error instanceof TableError) return fail("invalid_input", error.message, { rowErrors: [{ row: error.row ?? row + 1, field: error.field, message: error.message }] });
     throw error;
@@ -371,8 +439,7 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
   }
   return ok({
     analysis: { head, mapping, rowCount, blankRows, problems, errorRows: errorRows.size, sample, sources: [...sources.values()] },
-    prepared,
-    defaultSource,
+    validRows,
   });
 }
 
@@ -393,31 +460,28 @@ const toRowError = (p: RowProblem) => ({ row: p.row, field: p.field, message: p.
  */
 export async function previewImport(input: TableInput, options: ImportOptions): Promise<Result<ImportAnalysis>> {
   return guard(async () => {
-    const r = await analyse(input, options, sqlite());
+    const r = await analyse(input, options, sqlite(), null);
     if (r === "cancelled") return fail("invalid_input", "The preview was cancelled.");
     if (!r.ok) return r;
     return ok(r.data.analysis);
   });
 }
 
-function formatOf(input: TableInput): "csv" | "xlsx" | "paste" | "pdf_table" {
-  return input.kind;
-}
-
 const iso = (d: Date) => d.toISOString().replace("Z", "+00:00");
 
 /**
- * Imports a table: reads and checks every row (as the preview does), then writes every row or
- * none in one transaction, with an ImportRun, any sources the DOI column names that are not yet in
- * the collection, and one audit event. Rows with errors refuse the whole import unless
- * `excludeErrors` is set. Progress is reported while reading and writing; an aborted `signal`
- * rolls the transaction back, so a cancelled import leaves no records, only a cancelled run.
+ * Imports a table: reads, checks and writes every row in one transaction, streaming (only a chunk
+ * of rows is held at a time), with an ImportRun, the sources the DOI column names that are not yet
+ * in the collection, and one audit event. A row with errors makes the whole import roll back
+ * unless `excludeErrors` is set; every problem is still listed. Progress is reported as rows are
+ * read and written; an aborted `signal` rolls back, so a cancelled import leaves no records, only a
+ * cancelled run. A dry run checks everything and writes nothing.
  */
 export async function commitImport(input: TableInput, options: ImportOptions, actor: Actor): Promise<Result<ImportCommit>> {
   return guard(async () => {
     requireRole(actor, "contributor");
     const { filePath } = resolveDatabaseLocation();
-    // A connection of its own: its transaction spans several turns of the event loop, and other
+    // A connection of its own: its transaction spans many turns of the event loop, and other
     // requests on the shared connection must not run inside it.
     const db = openSqlite(filePath);
     try {
@@ -432,97 +496,72 @@ async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOp
   const now = options.now ?? (() => new Date());
   const fileName = input.fileName ?? (input.kind === "paste" ? "pasted table" : "table");
   const fileSha256 = "fileSha256" in input ? (input.fileSha256 ?? null) : null;
-  const sheetOf = (a: ImportAnalysis | null) => a?.head.sheet ?? null;
-  const recordCancelled = (analysis: ImportAnalysis | null): Result<ImportCommit> => {
-    const id = insertImportRunRaw(db, {
-      fileName, fileSha256, format: formatOf(input), sheet: sheetOf(analysis), mapping: analysis?.mapping.mapping ?? options.mapping ?? {},
-      sourceId: options.sourceId ?? null, rowCount: analysis?.rowCount ?? 0, importedCount: 0, excludedCount: 0, status: "cancelled", createdById: actor.id, at: iso(now()),
+  const at = iso(now());
+  const run = (status: "committed" | "cancelled", analysis: ImportAnalysis | null) =>
+    insertImportRunRaw(db, {
+      fileName, fileSha256, format: input.kind, sheet: analysis?.head.sheet ?? (input.kind === "xlsx" ? (input.sheet ?? null) : null), mapping: analysis?.mapping.mapping ?? options.mapping ?? {},
+      sourceId: options.sourceId ?? null, rowCount: analysis?.rowCount ?? 0, importedCount: 0, excludedCount: 0, status, createdById: actor.id, at,
     });
-    options.onProgress?.({ phase: "done", rowsRead: analysis?.rowCount ?? 0, rowsWritten: 0, rowsTotal: 0 });
-    return ok({ status: "cancelled", importRunId: id, imported: 0, excluded: 0, errors: [], warnings: [], records: [], createdSources: [], unmapped: analysis?.mapping.unmapped ?? [], mappingIssues: analysis?.mapping.issues ?? [] });
+  const cancelledResult = (): Result<ImportCommit> => {
+    const id = run("cancelled", null);
+    options.onProgress?.({ phase: "done", rowsRead: 0, rowsWritten: 0, rowsTotal: 0 });
+    return ok({ status: "cancelled", importRunId: id, imported: 0, excluded: 0, errors: [], warnings: [], records: [], createdSources: [], unmapped: [], mappingIssues: [] });
   };
 
-  const analysed = await analyse(input, options, db);
-  if (analysed === "cancelled") return recordCancelled(null);
-  if (!analysed.ok) return analysed;
-  const { analysis, prepared } = analysed.data;
-  const errors = analysis.problems.filter((p) => p.severity === "error").map(toRowError);
-  const warnings = analysis.problems.filter((p) => p.severity === "warning").map(toRowError);
-  const base = { errors, warnings, unmapped: analysis.mapping.unmapped, mappingIssues: analysis.mapping.issues };
-
-  if (hasMappingErrors(analysis.mapping.issues)) {
-    const mappingErrors = analysis.mapping.issues.filter((i) => i.severity === "error");
-    return fail("invalid_input", `The column mapping needs attention; nothing was written. ${mappingErrors.map((i) => i.message).join(" ")}`, {
-      rowErrors: mappingErrors.map((i) => ({ row: 0, field: i.field, message: i.message })),
-      mappingIssues: analysis.mapping.issues,
-      unmapped: analysis.mapping.unmapped,
-    });
+  let writer: Writer | null = null;
+  if (!options.dryRun) {
+    db.exec("BEGIN IMMEDIATE");
+    writer = { db, runId: 0, actor, at, fileName, excludeErrors: options.excludeErrors === true, ids: [], createdSources: [] };
+    writer.runId = run("committed", null);
   }
-  if (errors.length && !options.excludeErrors) {
-    return fail("invalid_input", `${analysis.errorRows} of ${analysis.rowCount} rows have problems; nothing was written. Fix them, or choose to leave those rows out.`, { rowErrors: errors, ...base, rowCount: analysis.rowCount });
-  }
-  if (options.dryRun) {
-    return ok({ status: "dry_run", importRunId: null, imported: prepared.length, excluded: analysis.errorRows, ...base, records: [], createdSources: [] });
-  }
-
-  const at = iso(now());
-  const total = prepared.length;
-  options.onProgress?.({ phase: "writing", rowsRead: analysis.rowCount, rowsWritten: 0, rowsTotal: total });
-  db.exec("BEGIN IMMEDIATE");
-  let open = true;
+  let open = writer !== null;
+  const rollback = () => {
+    if (open) db.exec("ROLLBACK");
+    open = false;
+  };
   try {
-    const runId = insertImportRunRaw(db, {
-      fileName, fileSha256, format: formatOf(input), sheet: sheetOf(analysis), mapping: analysis.mapping.mapping,
-      sourceId: options.sourceId ?? null, rowCount: analysis.rowCount, importedCount: 0, excludedCount: 0, status: "committed", createdById: actor.id, at,
-    });
-    // sources named by DOI (or address) that are not in the collection yet
-    const createdSources: { doi: string | null; url: string | null; id: number }[] = [];
-    const newIds = new Map<string, number>();
-    for (const use of analysis.sources) {
-      if (use.sourceId !== null || newIds.has(use.key)) continue;
-      const existing = use.doi ? sourceIdsByDoiRaw(db, [use.doi]).get(use.doi) : sourceIdByUrlRaw(db, use.url!);
-      if (existing !== undefined && existing !== null) {
-        newIds.set(use.key, existing);
-        continue;
-      }
-      const title = use.doi ? `Source with DOI ${use.doi}` : `Source at ${use.url}`.slice(0, 500);
-      const id = insertPlaceholderSourceRaw(
-        db,
-        { kind: "journal_article", title, titleKey: titleKey(title), doi: use.doi, url: use.url, notes: `Created by importing ${fileName} (import run ${runId}), known only by its ${use.doi ? "DOI" : "web address"}: complete the title, authors, year and kind.` },
-        actor.id,
-        at,
-      );
-      appendAuditRaw(db, { actorId: actor.id, actorName: actor.name, action: "create", entityType: "source", entityId: id, after: { doi: use.doi, url: use.url, title, createdBy: `import run ${runId}` }, at });
-      newIds.set(use.key, id);
-      createdSources.push({ doi: use.doi, url: use.url, id });
+    const analysed = await analyse(input, options, db, writer);
+    if (analysed === "cancelled") {
+      rollback();
+      return cancelledResult();
     }
-    for (const p of prepared) if (p.sourceKey) p.write.sourceId = newIds.get(p.sourceKey) ?? PENDING_SOURCE;
+    if (!analysed.ok) return analysed;
+    const { analysis, validRows } = analysed.data;
+    const errors = analysis.problems.filter((p) => p.severity === "error").map(toRowError);
+    const warnings = analysis.problems.filter((p) => p.severity === "warning").map(toRowError);
+    const base = { errors, warnings, unmapped: analysis.mapping.unmapped, mappingIssues: analysis.mapping.issues };
 
-    const materials = new Map<string, number>();
-    const ids: number[] = [];
-    for (let start = 0; start < total; start += WRITE_CHUNK) {
-      const chunk = prepared.slice(start, start + WRITE_CHUNK);
-      ids.push(...writePreparedRows(db, chunk, actor.id, at, { importFile: fileName, importRunId: runId, materials }));
-      options.onProgress?.({ phase: "writing", rowsRead: analysis.rowCount, rowsWritten: ids.length, rowsTotal: total });
-      if (start + WRITE_CHUNK < total) await yieldToLoop();
-      if (cancelled(options.signal)) {
-        db.exec("ROLLBACK");
-        open = false;
-        return recordCancelled(analysis);
-      }
+    if (hasMappingErrors(analysis.mapping.issues)) {
+      const mappingErrors = analysis.mapping.issues.filter((i) => i.severity === "error");
+      return fail("invalid_input", `The column mapping needs attention; nothing was written. ${mappingErrors.map((i) => i.message).join(" ")}`, {
+        rowErrors: mappingErrors.map((i) => ({ row: 0, field: i.field, message: i.message })),
+        mappingIssues: analysis.mapping.issues,
+        unmapped: analysis.mapping.unmapped,
+      });
     }
-    finishImportRunRaw(db, runId, { rowCount: analysis.rowCount, importedCount: ids.length, excludedCount: analysis.errorRows });
+    if (errors.length && !options.excludeErrors) {
+      return fail("invalid_input", `${analysis.errorRows} of ${analysis.rowCount} rows have problems; nothing was written. Fix them, or choose to leave those rows out.`, { rowErrors: errors, ...base, rowCount: analysis.rowCount });
+    }
+    if (!writer) {
+      return ok({ status: "dry_run", importRunId: null, imported: validRows, excluded: analysis.errorRows, ...base, records: [], createdSources: [] });
+    }
+    const imported = writer.ids.length;
+    finishImportRunRaw(db, writer.runId, { rowCount: analysis.rowCount, importedCount: imported, excludedCount: analysis.errorRows });
     appendAuditRaw(db, {
-      actorId: actor.id, actorName: actor.name, action: "import", entityType: "import_run", entityId: runId,
-      after: { fileName, format: formatOf(input), sheet: sheetOf(analysis), imported: ids.length, excludedRows: [...new Set(errors.map((e) => e.row))], firstId: ids[0] ?? null, lastId: ids[ids.length - 1] ?? null, createdSources: createdSources.map((s) => s.id) },
+      actorId: actor.id, actorName: actor.name, action: "import", entityType: "import_run", entityId: writer.runId,
+      after: { fileName, format: input.kind, sheet: analysis.head.sheet, imported, excludedRows: [...new Set(errors.map((e) => e.row))], firstId: writer.ids[0]?.id ?? null, lastId: writer.ids[imported - 1]?.id ?? null, createdSources: writer.createdSources.map((s) => s.id) },
       at,
     });
+    if (cancelled(options.signal)) {
+      rollback();
+      return cancelledResult();
+    }
     db.exec("COMMIT");
     open = false;
-    options.onProgress?.({ phase: "done", rowsRead: analysis.rowCount, rowsWritten: ids.length, rowsTotal: total });
-    return ok({ status: "committed", importRunId: runId, imported: ids.length, excluded: analysis.errorRows, ...base, records: prepared.map((p, i) => ({ row: p.row, id: ids[i]! })), createdSources });
+    options.onProgress?.({ phase: "done", rowsRead: analysis.rowCount, rowsWritten: imported, rowsTotal: imported });
+    return ok({ status: "committed", importRunId: writer.runId, imported, excluded: analysis.errorRows, ...base, records: writer.ids, createdSources: writer.createdSources });
   } finally {
-    if (open) db.exec("ROLLBACK");
+    rollback();
   }
 }
 

@@ -190,7 +190,7 @@ describe("all or nothing", () => {
       signal: controller.signal,
       onProgress: (p) => {
         seen.push(p.phase);
-        if (p.phase === "writing" && p.rowsWritten > 0) controller.abort();
+        if (p.rowsWritten > 0) controller.abort();
       },
     }, actor);
     if (!r.ok) throw new Error(JSON.stringify(r.error));
