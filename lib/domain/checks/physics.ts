@@ -15,14 +15,17 @@ import type { CheckRecord, Finding, RuleInfo } from "./types";
 
 export type DefectMode = "lack_of_fusion" | "keyhole" | "balling";
 
+/** One defect criterion as the melt-pool analysis reports it (criteria.ts, CriterionResult). */
 export interface CriterionValue {
   mode: DefectMode;
-  /** How the criterion reads, e.g. "W/D ≤ 2.5" or "(h/W)² + t/(t + D) ≥ 1". */
+  /** The rule in words, e.g. "W/D <= threshold". */
   name: string;
-  value: number;
-  threshold: number;
-  /** "atLeast": the defect is predicted when value ≥ threshold; "atMost": when value ≤ threshold. */
-  direction: "atLeast" | "atMost";
+  value: number | null;
+  threshold: number | null;
+  comparison: "<=" | ">=" | ">";
+  fired: boolean;
+  /** (value − threshold)/threshold for ">=" and ">", (threshold − value)/threshold for "<="; null when not evaluable. */
+  margin: number | null;
 }
 
 export interface PhysicsAssessment {
@@ -37,22 +40,20 @@ export interface PhysicsAssessment {
 
 const LABEL: Record<DefectMode, string> = { lack_of_fusion: "lack of fusion", keyhole: "keyhole porosity", balling: "balling" };
 
-/** Largest margin reported, so "no melting at all" stays a finite, JSON-safe number. */
+/** Margin given to a criterion that fired without a finite value (no melt pool at all). */
 const MARGIN_CAP = 1000;
 
 /**
  * How far a criterion is past its threshold, relative to it: > 0 when the defect is predicted
- * (0.25 = 25 % beyond), < 0 when it is not.
+ * (0.25 = 25 % beyond), < 0 when it is not, null when it could not be evaluated.
  *
  * @example
- * criterionMargin({ mode: "balling", name: "L/W ≥ 2.3", value: 4.6, threshold: 2.3, direction: "atLeast" }); // 1
- * criterionMargin({ mode: "keyhole", name: "W/D ≤ 2.5", value: 5, threshold: 2.5, direction: "atMost" });    // -0.5
+ * criterionMargin({ mode: "balling", name: "L/W >= threshold", value: 4.6, threshold: 2.3, comparison: ">=", fired: true, margin: 1 }); // 1
+ * criterionMargin({ mode: "lack_of_fusion", name: "overlap", value: null, threshold: 1, comparison: ">=", fired: true, margin: null }); // 1000
  */
-export function criterionMargin(c: CriterionValue): number {
-  if (!(c.threshold > 0) || !Number.isFinite(c.value)) return c.direction === "atLeast" ? MARGIN_CAP : -MARGIN_CAP;
-  if (c.direction === "atLeast") return Math.min(MARGIN_CAP, c.value / c.threshold - 1);
-  if (c.value <= 0) return MARGIN_CAP;
-  return Math.min(MARGIN_CAP, c.threshold / c.value - 1);
+export function criterionMargin(c: CriterionValue): number | null {
+  if (c.margin !== null && Number.isFinite(c.margin)) return Math.min(MARGIN_CAP, c.margin);
+  return c.fired ? MARGIN_CAP : null;
 }
 
 function strongest(criteria: readonly CriterionValue[], mode: DefectMode): { criterion: CriterionValue; margin: number } | null {
@@ -60,6 +61,7 @@ function strongest(criteria: readonly CriterionValue[], mode: DefectMode): { cri
   for (const c of criteria) {
     if (c.mode !== mode) continue;
     const margin = criterionMargin(c);
+    if (margin === null) continue;
     if (!best || margin > best.margin) best = { criterion: c, margin };
   }
   return best;
@@ -78,7 +80,10 @@ export const PHYSICS_RULE_INFO: RuleInfo = {
 };
 
 function describe(c: CriterionValue, margin: number): string {
-  return `${c.name.replace(/\s*[≥≤].*$/, "")} = ${fmt(c.value)} (${LABEL[c.mode]} at ${c.direction === "atLeast" ? "≥" : "≤"} ${fmt(c.threshold)}, ${margin >= 0 ? `${Math.round(margin * 100)} % beyond` : `${Math.round(-margin * 100)} % clear`})`;
+  const quantity = c.name.replace(/\s*(<=|>=|>|≤|≥).*$/, "");
+  const how = margin >= MARGIN_CAP ? "no melt pool at all" : margin >= 0 ? `${Math.round(margin * 100)} % beyond` : `${Math.round(-margin * 100)} % clear`;
+  const value = c.value === null ? "undefined" : fmt(c.value);
+  return `${quantity} = ${value} (${LABEL[c.mode]} at ${c.comparison === "<=" ? "≤" : c.comparison === ">=" ? "≥" : ">"} ${c.threshold === null ? "?" : fmt(c.threshold)}, ${how})`;
 }
 
 /**
@@ -98,12 +103,6 @@ export function outcomeVersusPhysics(record: CheckRecord, physics: PhysicsAssess
     .map((m) => byMode.get(m))
     .filter((x): x is { criterion: CriterionValue; margin: number } => x !== null && x !== undefined && x.margin >= margin)
     .sort((a, b) => b.margin - a.margin);
-  const details = {
-    inputs: { outcome: record.outcome, model: physics.model, widthUm: round(physics.meltPool.widthUm), depthUm: round(physics.meltPool.depthUm), lengthUm: round(physics.meltPool.lengthUm), ...physics.inputs },
-    thresholds: { margin },
-    criteria: physics.criteria.map((c) => ({ ...c, value: round(c.value), margin: round(criterionMargin(c)) })),
-    notes: [...physics.notes],
-  };
   const outcome = record.outcome;
   let message: string | null = null;
   if (outcome === "dense" && predicted[0]) {
@@ -120,6 +119,12 @@ export function outcomeVersusPhysics(record: CheckRecord, physics: PhysicsAssess
     }
   }
   if (!message) return null;
+  const details = {
+    inputs: { outcome: record.outcome, model: physics.model, widthUm: round(physics.meltPool.widthUm), depthUm: round(physics.meltPool.depthUm), lengthUm: round(physics.meltPool.lengthUm), ...physics.inputs },
+    thresholds: { margin },
+    criteria: physics.criteria.map((c) => ({ ...c, value: c.value === null ? null : round(c.value), margin: c.margin === null ? null : round(c.margin) })),
+    notes: [...physics.notes],
+  };
   return {
     code: PHYSICS_RULE_INFO.code,
     severity: "warning",
