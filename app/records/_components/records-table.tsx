@@ -2,8 +2,8 @@
 
 import Link from "next/link";
 import { useRouter, useSearchParams } from "next/navigation";
-import { useCallback, useEffect, useMemo, useRef, useState, type FormEvent, type KeyboardEvent as ReactKeyboardEvent, type MouseEvent as ReactMouseEvent } from "react";
-import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type RowData, type VisibilityState } from "@tanstack/react-table";
+import { memo, useCallback, useEffect, useMemo, useRef, useState, type FormEvent, type KeyboardEvent as ReactKeyboardEvent, type MouseEvent as ReactMouseEvent } from "react";
+import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type Row, type RowData, type VisibilityState } from "@tanstack/react-table";
 import { useVirtualizer } from "@tanstack/react-virtual";
 import { OUTCOMES } from "@/lib/domain/outcomes";
 import { RECORD_STATUSES } from "@/lib/schemas/record";
@@ -221,7 +221,12 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
 
   // ---- virtual rows
   const scrollRef = useRef<HTMLDivElement>(null);
-  const virtualizer = useVirtualizer({ count: rows.length, getScrollElement: () => scrollRef.current, estimateSize: () => ROW_HEIGHT, overscan: 12 });
+  // the body's virtualizer needs the element itself: a ref is attached only after children's effects ran
+  const [scrollElement, setScrollElement] = useState<HTMLDivElement | null>(null);
+  const attachScroller = useCallback((el: HTMLDivElement | null) => {
+    scrollRef.current = el;
+    setScrollElement(el);
+  }, []);
   useEffect(() => {
     scrollRef.current?.scrollTo({ top: 0 });
   }, [loaded.key]);
@@ -232,11 +237,14 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
     navigate({ ...state, sort: id, direction, page: 0 });
   }
 
-  function onRowClick(e: ReactMouseEvent<HTMLDivElement>, id: number) {
-    if ((e.target as HTMLElement).closest("a, button")) return;
-    if (window.getSelection()?.toString()) return;
-    router.push(`/records/${id}`);
-  }
+  const onRowClick = useCallback(
+    (e: ReactMouseEvent<HTMLDivElement>, id: number) => {
+      if ((e.target as HTMLElement).closest("a, button")) return;
+      if (window.getSelection()?.toString()) return;
+      router.push(`/records/${id}`);
+    },
+    [router],
+  );
 
   // ---- errors of the query, by field (ranges.laserPowerW -> power)
   const rangeErrors: Partial<Record<RangeParam, string>> = {};
@@ -381,7 +389,7 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
           </div>
         ) : page ? (
           <div className="grid-table" style={{ opacity: loading ? 0.65 : 1, transition: "opacity 120ms" }}>
-            <div ref={scrollRef} className="grid-table__scroller" role="table" aria-label="Build records" aria-rowcount={total + 1} aria-busy={loading || undefined} tabIndex={0}>
+            <div ref={attachScroller} className="grid-table__scroller" role="table" aria-label="Build records" aria-rowcount={total + 1} aria-busy={loading || undefined} tabIndex={0}>
               <div role="rowgroup" style={{ minWidth }}>
                 {table.getHeaderGroups().map((hg) => (
                   <div role="row" aria-rowindex={1} key={hg.id} className="grid-table__row grid-table__row--head" style={{ gridTemplateColumns: template, minWidth }}>
@@ -408,28 +416,7 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
                   </div>
                 ))}
               </div>
-              <div role="rowgroup" className="grid-table__body" style={{ height: virtualizer.getTotalSize(), minWidth }}>
-                {virtualizer.getVirtualItems().map((v) => {
-                  const row = table.getRowModel().rows[v.index];
-                  if (!row) return null;
-                  return (
-                    <div
-                      role="row"
-                      aria-rowindex={state.page * state.pageSize + v.index + 2}
-                      key={row.id}
-                      className="grid-table__row"
-                      style={{ gridTemplateColumns: template, height: ROW_HEIGHT, transform: `translateY(${v.start}px)`, width: "100%", minWidth, cursor: "pointer" }}
-                      onClick={(e) => onRowClick(e, row.original.id)}
-                    >
-                      {row.getVisibleCells().map((cell) => (
-                        <div role="cell" key={cell.id} className={`grid-table__cell${cell.column.columnDef.meta?.numeric ? " num" : ""}`}>
-                          {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                        </div>
-                      ))}
-                    </div>
-                  );
-                })}
-              </div>
+              <VirtualRows rows={table.getRowModel().rows} scrollElement={scrollElement} template={template} minWidth={minWidth} firstRowIndex={state.page * state.pageSize + 2} onRowClick={onRowClick} />
             </div>
           </div>
         ) : null}
@@ -461,6 +448,40 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
     </div>
   );
 }
+
+/**
+ * The virtualized body: only the rows in view (plus a margin) are in the DOM, and scrolling
+ * re-renders this component alone, not the filters and header around it.
+ */
+const VirtualRows = memo(function VirtualRows({ rows, scrollElement, template, minWidth, firstRowIndex, onRowClick }: { rows: Row<RecordsApiRow>[]; scrollElement: HTMLDivElement | null; template: string; minWidth: number; firstRowIndex: number; onRowClick: (e: ReactMouseEvent<HTMLDivElement>, id: number) => void }) {
+  const virtualizer = useVirtualizer({ count: rows.length, getScrollElement: () => scrollElement, estimateSize: () => ROW_HEIGHT, overscan: 10 });
+  const items = virtualizer.getVirtualItems();
+  // Rows sit in normal flow inside one shifted block, so a row already on screen keeps its
+  // props while scrolling and is not rendered again; only rows coming into view are.
+  const offset = items[0]?.start ?? 0;
+  return (
+    <div role="rowgroup" className="grid-table__body" style={{ height: virtualizer.getTotalSize(), minWidth }}>
+      <div style={{ transform: `translateY(${offset}px)` }}>
+        {items.map((v) => {
+          const row = rows[v.index];
+          return row ? <VirtualRow key={row.id} row={row} template={template} minWidth={minWidth} rowIndex={firstRowIndex + v.index} onRowClick={onRowClick} /> : null;
+        })}
+      </div>
+    </div>
+  );
+});
+
+const VirtualRow = memo(function VirtualRow({ row, template, minWidth, rowIndex, onRowClick }: { row: Row<RecordsApiRow>; template: string; minWidth: number; rowIndex: number; onRowClick: (e: ReactMouseEvent<HTMLDivElement>, id: number) => void }) {
+  return (
+    <div role="row" aria-rowindex={rowIndex} className="grid-table__row" style={{ gridTemplateColumns: template, height: ROW_HEIGHT, minWidth, cursor: "pointer" }} onClick={(e) => onRowClick(e, row.original.id)}>
+      {row.getVisibleCells().map((cell) => (
+        <div role="cell" key={cell.id} className={`grid-table__cell${cell.column.columnDef.meta?.numeric ? " num" : ""}`}>
+          {flexRender(cell.column.columnDef.cell, cell.getContext())}
+        </div>
+      ))}
+    </div>
+  );
+});
 
 function SortIcon({ state }: { state: "asc" | "desc" | null }) {
   return (
