@@ -54,7 +54,7 @@ export function BarChart({ data, title, unit, width = 560 }: { data: readonly Ba
               <rect x={LABEL_WIDTH} y={y} width={plot} height={BAR} fill="#eef0f3" rx="2" />
               {d.segments.map((s) => {
                 const w = (s.value / max) * plot;
-                const rect = w > 0 ? <rect key={s.key} x={x} y={y} width={w} height={BAR} fill={s.colour} stroke="#ffffff" strokeWidth="0.75" /> : null;
+                const rect = w > 0 ? <rect key={s.key} x={x} y={y} width={w} height={BAR} fill={s.colour} stroke="#1b2128" strokeOpacity="0.45" strokeWidth="0.75" /> : null;
                 x += w;
                 return rect;
               })}

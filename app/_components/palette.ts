@@ -10,7 +10,10 @@
 /** The one accent colour (links, primary buttons, focus ring); 6.4:1 against white. */
 export const ACCENT = "#0e6a63";
 
-/** Outcome fills for charts and swatches (graphics: ≥ 3:1 against white, except the lightest two, which get an outline). */
+/**
+ * Outcome fills for charts and swatches. The light ones (balling, other, unknown) fall below 3:1
+ * against white, so every bar and swatch is drawn with a dark outline and labelled in text.
+ */
 export const OUTCOME_COLOURS = {
   dense: "#1d4fa3",
   keyhole: "#e07a1f",
@@ -28,10 +31,10 @@ export function outcomeColour(outcome: string): string {
   return (OUTCOME_COLOURS as Record<string, string>)[outcome] ?? OUTCOME_COLOURS.unknown;
 }
 
-/** Record status colours: text on a tint, both ≥ 4.5:1. */
+/** Record status colours: badge text on its tint ≥ 4.5:1; bar fills ≥ 3:1 against white. */
 export const STATUS_COLOURS = {
-  draft: { text: "#374151", tint: "#eef0f3", bar: "#8d949e" },
-  needs_review: { text: "#8a4b00", tint: "#fdf1dc", bar: "#d98e04" },
+  draft: { text: "#374151", tint: "#eef0f3", bar: "#7c8692" },
+  needs_review: { text: "#8a4b00", tint: "#fdf1dc", bar: "#b87500" },
   accepted: { text: "#1d5c2e", tint: "#e8f5ec", bar: "#2f8a4a" },
   rejected: { text: "#9b1c1c", tint: "#fdecec", bar: "#c23b3b" },
   merged: { text: "#5b2a86", tint: "#f3ecf9", bar: "#7d4cb0" },

@@ -1,0 +1,27 @@
+import { NextResponse } from "next/server";
+import { localActor } from "@/lib/server/actor";
+import { attachPdfToSource, listDocuments } from "@/lib/server/files";
+import { errorResponse } from "../../../_lib/json";
+import { readUpload } from "../../../_lib/upload";
+
+export const dynamic = "force-dynamic";
+
+type Params = { params: Promise<{ id: string }> };
+
+/** GET /api/sources/:id/documents: the source's PDFs. */
+export async function GET(_request: Request, { params }: Params) {
+  const { id } = await params;
+  const result = await listDocuments(Number(id));
+  if (!result.ok) return errorResponse(result.error);
+  return NextResponse.json({ documents: result.data });
+}
+
+/** POST /api/sources/:id/documents with a multipart "file": stores the PDF (once per content) and links it. */
+export async function POST(request: Request, { params }: Params) {
+  const { id } = await params;
+  const upload = await readUpload(request);
+  if (!upload.ok) return errorResponse(upload.error);
+  const result = await attachPdfToSource(Number(id), upload.file.stream(), upload.file.name, await localActor());
+  if (!result.ok) return errorResponse(result.error);
+  return NextResponse.json({ document: result.data }, { status: result.data.alreadyAttached ? 200 : 201 });
+}
