@@ -1,0 +1,177 @@
+import type { CheckRecord } from "../domain/checks/types";
+import type { PropertyOverrides, PropertyName } from "../domain/alloy-properties";
+import type { SourceAttributes } from "../domain/source-quality";
+import type { SqliteDatabase } from "./connection";
+
+/** A record as the checks read it, with the columns the run needs beside the check itself. */
+export interface CheckInputRow extends CheckRecord {
+  status: string;
+  version: number;
+  qualityScore: number | null;
+}
+
+interface RawRecord {
+  id: number;
+  sourceId: number;
+  materialId: number;
+  alloyKey: string;
+  laserPowerW: number | null;
+  scanSpeedMmPerS: number | null;
+  hatchSpacingUm: number | null;
+  layerThicknessUm: number | null;
+  spotDiameterUm: number | null;
+  preheatC: number | null;
+  powderD10Um: number | null;
+  powderD50Um: number | null;
+  powderD90Um: number | null;
+  relativeDensityPct: number | null;
+  volumetricEnergyJMm3: number | null;
+  outcome: string;
+  machine: string | null;
+  atmosphere: string | null;
+  spotDefinition: string | null;
+  enteredValues: string;
+  status: string;
+  version: number;
+  qualityScore: number | null;
+}
+
+const COLUMNS = `id, sourceId, materialId, alloyKey, laserPowerW, scanSpeedMmPerS, hatchSpacingUm, layerThicknessUm, spotDiameterUm, preheatC,
+  powderD10Um, powderD50Um, powderD90Um, relativeDensityPct, volumetricEnergyJMm3, outcome, machine, atmosphere, spotDefinition, enteredValues,
+  status, version, qualityScore`;
+
+/** Records that take part in checks: everything but rejected records and those merged into another. */
+const ACTIVE = `status NOT IN ('rejected', 'merged')`;
+
+type Components = CheckRecord["components"];
+
+/** Components per material, one shared frozen array per material (records of a grade share it). */
+function materialComponents(db: SqliteDatabase, materialIds: Iterable<number>): Map<number, { basis: string; components: Components }> {
+  const ids = [...new Set(materialIds)];
+  const out = new Map<number, { basis: string; components: { element: string; amount: number; isBalance: boolean }[] }>();
+  for (let i = 0; i < ids.length; i += 500) {
+    const part = ids.slice(i, i + 500);
+    const ph = part.map(() => "?").join(",");
+    for (const m of db.prepare(`SELECT id, basis FROM Material WHERE id IN (${ph})`).all(...part) as { id: number; basis: string }[]) out.set(m.id, { basis: m.basis, components: [] });
+    for (const c of db.prepare(`SELECT materialId, element, amount, isBalance FROM MaterialComponent WHERE materialId IN (${ph}) ORDER BY materialId, element`).all(...part) as { materialId: number; element: string; amount: number; isBalance: number }[]) {
+      out.get(c.materialId)?.components.push({ element: c.element, amount: c.amount, isBalance: c.isBalance === 1 });
+    }
+  }
+  for (const v of out.values()) Object.freeze(v.components);
+  return out;
+}
+
+function parseEntered(text: string): CheckRecord["entered"] {
+  if (text === "{}" || text === "") return {};
+  try {
+    const v: unknown = JSON.parse(text);
+    return v && typeof v === "object" ? (v as CheckRecord["entered"]) : {};
+  } catch {
+    return {};
+  }
+}
+
+const NO_COMPONENTS: Components = Object.freeze([]);
+
+function toInputs(db: SqliteDatabase, rows: RawRecord[]): CheckInputRow[] {
+  const materials = materialComponents(db, rows.map((r) => r.materialId));
+  return rows.map((r) => {
+    const m = materials.get(r.materialId);
+    return {
+      id: r.id,
+      sourceId: r.sourceId,
+      alloyKey: r.alloyKey,
+      components: m?.components ?? NO_COMPONENTS,
+      compositionBasis: m?.basis ?? "wt",
+      laserPowerW: r.laserPowerW,
+      scanSpeedMmPerS: r.scanSpeedMmPerS,
+      hatchSpacingUm: r.hatchSpacingUm,
+      layerThicknessUm: r.layerThicknessUm,
+      spotDiameterUm: r.spotDiameterUm,
+      preheatC: r.preheatC,
+      powderD10Um: r.powderD10Um,
+      powderD50Um: r.powderD50Um,
+      powderD90Um: r.powderD90Um,
+      relativeDensityPct: r.relativeDensityPct,
+      volumetricEnergyJMm3: r.volumetricEnergyJMm3,
+      outcome: r.outcome,
+      machine: r.machine,
+      atmosphere: r.atmosphere,
+      spotDefinition: r.spotDefinition,
+      entered: parseEntered(r.enteredValues),
+      status: r.status,
+      version: r.version,
+      qualityScore: r.qualityScore,
+    };
+  });
+}
+
+/** Every active record, or the active records of the given alloys. */
+export function loadCheckRecords(db: SqliteDatabase, alloyKeys: readonly string[] | "all"): CheckInputRow[] {
+  if (alloyKeys === "all") return toInputs(db, db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} ORDER BY id`).all() as RawRecord[]);
+  if (!alloyKeys.length) return [];
+  return toInputs(db, db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} AND alloyKey IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY id`).all(...alloyKeys) as RawRecord[]);
+}
+
+/** Alloy and status of the given records (any status), for choosing what to load. */
+export function recordKeys(db: SqliteDatabase, ids: readonly number[]): { id: number; alloyKey: string; status: string }[] {
+  const out: { id: number; alloyKey: string; status: string }[] = [];
+  for (let i = 0; i < ids.length; i += 500) {
+    const part = ids.slice(i, i + 500);
+    out.push(...(db.prepare(`SELECT id, alloyKey, status FROM BuildRecord WHERE id IN (${part.map(() => "?").join(",")})`).all(...part) as { id: number; alloyKey: string; status: string }[]));
+  }
+  return out;
+}
+
+/** The attributes the source score reads, per source id. */
+export function loadSourceAttributes(db: SqliteDatabase, ids: readonly number[] | "all"): Map<number, SourceAttributes & { id: number; title: string; version: number }> {
+  const sql = `SELECT id, title, version, kind, densityMethod, outcomeEvidence, machineStated, spotSizeDefinition, powderReported, atmosphereReported, qualityOverride, qualityOverrideReason FROM Source`;
+  const rows = (ids === "all" ? db.prepare(sql).all() : ids.length ? db.prepare(`${sql} WHERE id IN (${ids.map(() => "?").join(",")})`).all(...ids) : []) as {
+    id: number; title: string; version: number; kind: string; densityMethod: string; outcomeEvidence: string; machineStated: number; spotSizeDefinition: string | null;
+    powderReported: number; atmosphereReported: number; qualityOverride: number | null; qualityOverrideReason: string | null;
+  }[];
+  return new Map(
+    rows.map((s) => [
+      s.id,
+      { ...s, machineStated: s.machineStated === 1, powderReported: s.powderReported === 1, atmosphereReported: s.atmosphereReported === 1 },
+    ]),
+  );
+}
+
+/** Column spellings of AlloyPropertyOverride.property (schema comment) and the domain's names. */
+const PROPERTY_COLUMN: Record<string, PropertyName> = {
+  density_kg_m3: "densityKgPerM3",
+  cp_j_kg_k: "specificHeatJPerKgK",
+  k_w_m_k: "thermalConductivityWPerMK",
+  solidus_k: "solidusK",
+  liquidus_k: "liquidusK",
+  boiling_k: "boilingK",
+  latent_heat_j_kg: "latentHeatJPerKg",
+  absorptivity: "absorptivity",
+};
+
+/** Reviewer overrides of alloy properties, per alloy key; unknown property names and unusable values are skipped. */
+export function loadPropertyOverrides(db: SqliteDatabase): Map<string, PropertyOverrides> {
+  const out = new Map<string, PropertyOverrides>();
+  const known = new Set<string>(Object.values(PROPERTY_COLUMN));
+  for (const r of db.prepare(`SELECT alloyKey, property, value, source FROM AlloyPropertyOverride`).all() as { alloyKey: string; property: string; value: number; source: string }[]) {
+    const name = PROPERTY_COLUMN[r.property] ?? (known.has(r.property) ? (r.property as PropertyName) : undefined);
+    if (!name || !(r.value > 0) || (name === "absorptivity" && r.value > 1)) continue;
+    const o = out.get(r.alloyKey) ?? {};
+    o[name] = { value: r.value, source: r.source };
+    out.set(r.alloyKey, o);
+  }
+  return out;
+}
+
+/** Writes quality scores (caller's transaction). Does not touch version or updatedAt: a derived value, not an edit. */
+export function writeQualityScores(db: SqliteDatabase, scores: readonly (readonly [number, number])[]): void {
+  const s = db.prepare(`UPDATE BuildRecord SET qualityScore = ? WHERE id = ?`);
+  for (const [id, q] of scores) s.run(q, id);
+}
+
+/** Sends accepted records back to review (a new error flag opened on them); caller's transaction. */
+export function reopenAcceptedRecords(db: SqliteDatabase, ids: readonly number[], at: string): number[] {
+  const s = db.prepare(`UPDATE BuildRecord SET status = 'needs_review', version = version + 1, updatedAt = ? WHERE id = ? AND status = 'accepted'`);
+  return ids.filter((id) => s.run(at, id).changes === 1);
+}
