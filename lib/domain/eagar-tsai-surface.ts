@@ -74,10 +74,10 @@ export interface SurfaceSpec {
   profileSamples?: number;
 }
 
-/** Main table: u from 1e-3 to 1e3, s = θ/G_peak from 1/(1 + e^7) ≈ 9e-4 to 1 − 9e-4. */
+/** Main table: u from 1e-3 to 1e3, s = θ/G_peak from 1/(1 + e^7) ≈ 9e-4 to 1/(1 + e^−11.55) ≈ 1 − 1e-5. */
 export const MAIN_SURFACE_SPEC: SurfaceSpec = {
   lnU: { min: Math.log(1e-3), step: Math.log(1e6) / 40, count: 41 },
-  xi: { min: -7, step: 0.35, count: 41 },
+  xi: { min: -7, step: 0.35, count: 54 },
   peakLnU: { min: Math.log(1e-3), step: Math.log(1e6) / 240, count: 241 },
   cellTolerance: 0.003,
 };
