@@ -8,6 +8,7 @@ const LINKS = [
   { href: "/", label: "Home" },
   { href: "/records", label: "Records" },
   { href: "/sources", label: "Sources" },
+  { href: "/imports", label: "Import" },
 ] as const;
 
 function isCurrent(pathname: string, href: string): boolean {

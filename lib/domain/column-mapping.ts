@@ -170,7 +170,12 @@ export function guessField(header: string): ImportField | null {
   return null;
 }
 
-function columnKey(headers: readonly string[], index: number): string {
+/**
+ * The key a mapping uses for a column: its header, or "#N" when the header is empty or repeated.
+ *
+ * @example columnKey(["P", "P", "v"], 1); // "#2"
+ */
+export function columnKey(headers: readonly string[], index: number): string {
   const h = headers[index]?.trim() ?? "";
   const repeated = headers.filter((x) => x.trim() === h).length > 1;
   return h === "" || repeated ? `#${index + 1}` : h;

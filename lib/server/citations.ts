@@ -1,6 +1,8 @@
 import { parseCitations, type CitationSource } from "../domain/citations";
 import { normalizeDoi, titleKey } from "../domain/doi";
-import { findSourceByDoi, findSourcesByTitleKey } from "../db/sources";
+import { findSourceByDoi, findSourcesByTitleKey, getSource } from "../db/sources";
+import type { Actor } from "./actor";
+import { updateSource } from "./sources";
 import { fail, guard, ok, type Result } from "./result";
 
 export interface ExistingSourceMatch {
@@ -55,5 +57,24 @@ export async function lookupDoi(text: string): Promise<Result<{ doi: string; exi
     const doi = normalizeDoi(typeof text === "string" ? text : "");
     if (!doi) return fail("invalid_input", "That is not a DOI: it should look like 10.5555/abc123 (a resolver address in front is fine).", { fieldErrors: { doi: ["Not a DOI."] } });
     return ok({ doi, existing: await findExisting(doi, "", null) });
+  });
+}
+
+/**
+ * Gives a source the DOI found in its paper, when it has none yet. A DOI that belongs to another
+ * source is a conflict naming that source.
+ */
+export async function assignSourceDoi(sourceId: number, doiText: string, actor: Actor): Promise<Result<{ id: number; version: number; doi: string }>> {
+  return guard(async () => {
+    const doi = normalizeDoi(typeof doiText === "string" ? doiText : "");
+    if (!doi) return fail("invalid_input", "That is not a DOI.", { fieldErrors: { doi: ["Not a DOI."] } });
+    const source = await getSource(sourceId);
+    if (!source) return fail("not_found", `Source ${sourceId} does not exist.`);
+    if (source.doi === doi) return ok({ id: source.id, version: source.version, doi });
+    if (source.doi) return fail("conflict", `Source ${sourceId} already has the DOI ${source.doi}; change it on the source page if it is wrong.`);
+    const { id, version, titleKey: _t, ...values } = source;
+    const r = await updateSource({ ...values, id, version, doi }, actor);
+    if (!r.ok) return r;
+    return ok({ ...r.data, doi });
   });
 }

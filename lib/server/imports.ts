@@ -403,6 +403,11 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
     }
   };
 
+  const sampleOnly = (cells: string[]) => {
+    row++;
+    if (sample.length < sampleSize) sample.push({ row, cells, values: {}, outcome: "unknown", sourceLabel: null, problems: [] });
+  };
+
   try {
     for await (const raw of table.rows) {
       const cells = raw.map(cellText);
@@ -411,8 +416,13 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
         if (firstRows.length < 5) continue;
         checkHeader(head, firstRows);
         headerChecked = true;
-        if (hasMappingErrors(mapping.issues)) break;
-        for (const c of firstRows) handle(c);
+        for (const c of firstRows) (hasMappingErrors(mapping.issues) ? sampleOnly : handle)(c);
+        continue;
+      }
+      if (hasMappingErrors(mapping.issues)) {
+        // rows cannot be checked against a broken mapping; a few are kept to show what the columns hold
+        if (sample.length >= sampleSize) break;
+        sampleOnly(cells);
         continue;
       }
       handle(cells);
@@ -425,7 +435,7 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
     if (!headerChecked) {
       if (!firstRows.length && head.headers.every((h) => h === "")) throw new TableError("The table is empty.", "file", 0);
       checkHeader(head, firstRows);
-      if (!hasMappingErrors(mapping.issues)) for (const c of firstRows) handle(c);
+      for (const c of firstRows) (hasMappingErrors(mapping.issues) ? sampleOnly : handle)(c);
     }
     if (writing) flush();
   } catch (error) {

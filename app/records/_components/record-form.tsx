@@ -1,7 +1,7 @@
 "use client";
 
 import Link from "next/link";
-import { useMemo, useRef, useState, useTransition, type FocusEvent, type FormEvent } from "react";
+import { useEffect, useMemo, useRef, useState, useTransition, type FocusEvent, type FormEvent } from "react";
 import { resolveAlloy, listGrades } from "@/lib/domain/alloys";
 import { parseComposition } from "@/lib/domain/composition";
 import { energyDensities } from "@/lib/domain/energy-density";
@@ -29,6 +29,8 @@ export interface RecordFormProps {
   version?: number;
   action: (input: unknown) => Promise<FormState>;
   autoFocusFirst?: boolean;
+  /** The page shown in the paper pane beside the form; it fills the record's page. */
+  pageInView?: number | null;
 }
 
 const QUANTITY_LABEL: Record<RecordQuantityField, string> = {
@@ -74,7 +76,7 @@ const valueOf = (p: Parsed) => (p && p.ok ? p.value : null);
  * Keying in or editing one build record. Messages come from the same schema the server uses;
  * canonical values and energy densities update while typing; a version conflict keeps the input.
  */
-export function RecordForm({ mode, initial, sources, recordId, version, action, autoFocusFirst }: RecordFormProps) {
+export function RecordForm({ mode, initial, sources, recordId, version, action, autoFocusFirst, pageInView }: RecordFormProps) {
   const formRef = useRef<HTMLFormElement>(null);
   const alertRef = useRef<HTMLDivElement>(null);
   const [values, setValues] = useState<RecordFormValues>(initial);
@@ -84,6 +86,9 @@ export function RecordForm({ mode, initial, sources, recordId, version, action, 
   const [serverErrors, setServerErrors] = useState<Record<string, string[]>>({});
   const [attempt, setAttempt] = useState(0);
   const [pending, startTransition] = useTransition();
+  useEffect(() => {
+    if (pageInView) setValues((v) => (v.locationPage === String(pageInView) ? v : { ...v, locationPage: String(pageInView) }));
+  }, [pageInView]);
 
   const input = useMemo(() => recordInputOf(values), [values]);
   const schema = mode === "edit" ? recordUpdateSchema : recordInputSchema;

@@ -1,7 +1,7 @@
 import { getNewRecordForm } from "@/lib/server/record-editor";
 import { LoadError } from "../../_components/load-error";
 import { PageHeader } from "../../_components/page-header";
-import { RecordForm } from "../_components/record-form";
+import { RecordFormWithPdf } from "../_components/record-form-with-pdf";
 import { emptyRecordFormValues } from "../_lib/record-form-values";
 import { createRecordAction } from "../actions";
 
@@ -16,7 +16,7 @@ export default async function NewRecordPage({ searchParams }: { searchParams: Pr
   return (
     <>
       <PageHeader eyebrow="Records" title="Key in a record" description="Type values with the units the source uses; they are stored in one canonical unit per quantity, and what you typed is kept beside them." />
-      <RecordForm mode="create" initial={emptyRecordFormValues(preselected)} sources={sources} action={createRecordAction} autoFocusFirst />
+      <RecordFormWithPdf sourceId={preselected} mode="create" initial={emptyRecordFormValues(preselected)} sources={sources} action={createRecordAction} autoFocusFirst />
     </>
   );
 }

@@ -1,5 +1,5 @@
 import { PageHeader } from "../../_components/page-header";
-import { SourceForm } from "../_components/source-form";
+import { SourceIntake } from "../_components/source-intake";
 import { createSourceAction } from "../actions";
 
 export const metadata = { title: "Add a source" };
@@ -8,9 +8,7 @@ export default function NewSourcePage() {
   return (
     <>
       <PageHeader eyebrow="Sources" title="Add a source" description="A DOI already in the collection, or the same title and year, is caught before a copy is made." />
-      <div className="panel" style={{ maxWidth: 980 }}>
-        <SourceForm action={createSourceAction} submitLabel="Add source" />
-      </div>
+      <SourceIntake action={createSourceAction} />
     </>
   );
 }
