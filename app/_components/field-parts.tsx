@@ -25,7 +25,13 @@ export function FieldLabel({ htmlFor, children, optional }: { htmlFor: string; c
   return (
     <label className="field__label" htmlFor={htmlFor}>
       {children}
-      {optional ? <span className="field__optional"> (optional)</span> : null}
+      {/* "optional" is shown, not announced: required fields carry aria-required/required instead */}
+      {optional ? (
+        <span className="field__optional" aria-hidden="true">
+          {" "}
+          (optional)
+        </span>
+      ) : null}
     </label>
   );
 }

@@ -3,20 +3,23 @@
 import { redirect } from "next/navigation";
 import { localActor } from "@/lib/server/actor";
 import { createRecord, rejectRecord, updateRecord } from "@/lib/server/records";
+import { setFlash } from "../_components/flash";
 import type { FormState } from "../_components/form-result";
 
 /** Saves a new record (input in the record form's shape); on success opens its page. */
 export async function createRecordAction(input: unknown): Promise<FormState> {
   const result = await createRecord(input, await localActor());
   if (!result.ok) return { error: result.error };
-  redirect(`/records/${result.data.id}?saved=created`);
+  await setFlash(`record-${result.data.id}`, "created");
+  redirect(`/records/${result.data.id}`);
 }
 
 /** Saves an edit when nobody saved the record first; on success opens its page. */
 export async function updateRecordAction(input: unknown): Promise<FormState> {
   const result = await updateRecord(input, await localActor());
   if (!result.ok) return { error: result.error };
-  redirect(`/records/${result.data.id}?saved=updated`);
+  await setFlash(`record-${result.data.id}`, "updated");
+  redirect(`/records/${result.data.id}`);
 }
 
 /** Rejects a record with a reason (there is no delete); on success reloads its page. */
@@ -24,5 +27,6 @@ export async function rejectRecordAction(formData: FormData): Promise<FormState>
   const input = { id: formData.get("id"), version: formData.get("version"), reason: formData.get("reason") ?? "" };
   const result = await rejectRecord(input, await localActor());
   if (!result.ok) return { error: result.error };
-  redirect(`/records/${result.data.id}?saved=rejected`);
+  await setFlash(`record-${result.data.id}`, "rejected");
+  redirect(`/records/${result.data.id}`);
 }

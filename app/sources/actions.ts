@@ -3,6 +3,7 @@
 import { redirect } from "next/navigation";
 import { localActor } from "@/lib/server/actor";
 import { createSource, updateSource } from "@/lib/server/sources";
+import { setFlash } from "../_components/flash";
 import type { FormState } from "../_components/form-result";
 import { sourceInputFromFormData } from "./_lib/source-form-data";
 
@@ -11,7 +12,8 @@ export async function createSourceAction(formData: FormData): Promise<FormState>
   const input = sourceInputFromFormData(formData);
   const result = await createSource(input, await localActor(), { allowSameTitle: formData.get("allowSameTitle") === "on" });
   if (!result.ok) return { error: result.error };
-  redirect(`/sources/${result.data.id}?saved=created`);
+  await setFlash(`source-${result.data.id}`, "created");
+  redirect(`/sources/${result.data.id}`);
 }
 
 /** Saves an edit when the version still matches; on success reloads the source page. */
@@ -19,5 +21,6 @@ export async function updateSourceAction(formData: FormData): Promise<FormState>
   const input = sourceInputFromFormData(formData);
   const result = await updateSource(input, await localActor());
   if (!result.ok) return { error: result.error };
-  redirect(`/sources/${result.data.id}?saved=updated`);
+  await setFlash(`source-${result.data.id}`, "updated");
+  redirect(`/sources/${result.data.id}`);
 }

@@ -25,15 +25,15 @@ describe("check settings", () => {
   });
 
   test("a stored older version is completed with defaults and loses unknown keys", () => {
-    const s = completeCheckSettings({ "range.scanSpeed.max": 4000, "retired.setting": 3, "physics.margin": "high" });
+    const s = completeCheckSettings({ "range.scanSpeed.max": 4000, "retired.setting": 3, "physics.margin.keyhole": "high" });
     expect(s["range.scanSpeed.max"]).toBe(4000);
-    expect(s["physics.margin"]).toBe(0.25);
+    expect(s["physics.margin.keyhole"]).toBe(0.75);
     expect("retired.setting" in s).toBe(false);
   });
 
   test.each([
     [{ "range.laserPower.min": 2000 }, "range.laserPower.min", /above the highest/],
-    [{ "physics.margin": -1 }, "physics.margin", /between 0 and 5/],
+    [{ "physics.margin.keyhole": -1 }, "physics.margin.keyhole", /between 0 and 1000/],
     [{ "neighbours.minCount": 9, "neighbours.count": 5 }, "neighbours.minCount", /cannot exceed/],
     [{ "no.such.key": 1 }, "no.such.key", /Unknown setting/],
   ])("problems: %j", (overrides, key, message) => {

@@ -24,6 +24,10 @@ function rangeDefs(quantity: Quantity): SettingDef[] {
   ];
 }
 
+/** Why the physics margins are what they are. */
+const PHYSICS_MARGIN_NOTE =
+  "DOMAIN.md: conflicts only beyond a margin (a conduction-mode model underestimates depth once keyholing starts); project calibration from memory, set so that well-known dense parameter sets of 316L, Ti-6Al-4V, AlSi10Mg and IN718 raise no conflict";
+
 const SHEIKH_2024 = "Sheikh et al., npj Comput. Mater. 10:252 (2024), defaults as listed in DOMAIN.md";
 
 /** Threshold definitions of the record and collection checks (quality weights are appended below). */
@@ -34,7 +38,9 @@ export const CHECK_THRESHOLD_DEFS: readonly SettingDef[] = [
   { key: "geometry.spotToHatch.max", group: "Spot and hatch", label: "Largest spot diameter / hatch spacing", unit: "", defaultValue: 5, min: 1, max: 100, source: "tracks usually overlap by a fraction of the spot (common practice); the bound is from memory, configurable" },
   { key: "geometry.hatchToSpot.max", group: "Spot and hatch", label: "Largest hatch spacing / spot diameter", unit: "", defaultValue: 3, min: 1, max: 100, source: "a hatch several spot diameters wide leaves unfused gaps (common practice); the bound is from memory, configurable" },
   { key: "composition.sumTolerancePct", group: "Composition", label: "Allowed deviation of the composition sum from 100", unit: "wt%", defaultValue: 0.5, min: 0, max: 10, source: "DOMAIN.md: 100 ± 0.5 wt% after the balance is filled (common practice)" },
-  { key: "physics.margin", group: "Outcome versus physics", label: "Margin beyond a criterion's threshold before a label is contradicted", unit: "", defaultValue: 0.25, min: 0, max: 5, source: "DOMAIN.md: conflicts only beyond a margin, because conduction-mode models underestimate depth once keyholing starts; 25 % is a project default (from memory)" },
+  { key: "physics.margin.lackOfFusion", group: "Outcome versus physics", label: "Margin beyond the lack-of-fusion criteria before a label is contradicted", unit: "", defaultValue: 0.75, min: 0, max: 1000, source: PHYSICS_MARGIN_NOTE },
+  { key: "physics.margin.keyhole", group: "Outcome versus physics", label: "Margin beyond the keyhole criteria before a label is contradicted", unit: "", defaultValue: 0.75, min: 0, max: 1000, source: PHYSICS_MARGIN_NOTE },
+  { key: "physics.margin.balling", group: "Outcome versus physics", label: "Margin beyond the balling criterion before a label is contradicted", unit: "", defaultValue: 3, min: 0, max: 1000, source: `${PHYSICS_MARGIN_NOTE}; the Eagar–Tsai pool of common dense 316L and IN718 parameters already has L/W of 3–7` },
   { key: "physics.lackOfFusion.overlap", group: "Outcome versus physics", label: "Lack of fusion when (h/W)² + t/(t + D) reaches", unit: "", defaultValue: 1, min: 0.1, max: 10, source: SHEIKH_2024 },
   { key: "physics.balling.lengthToWidth", group: "Outcome versus physics", label: "Balling when L/W reaches", unit: "", defaultValue: 2.3, min: 0.5, max: 20, source: SHEIKH_2024 },
   { key: "physics.keyhole.widthToDepth", group: "Outcome versus physics", label: "Keyhole when W/D falls to", unit: "", defaultValue: 2.5, min: 0.1, max: 20, source: `${SHEIKH_2024}; Johnson et al., Acta Mater. 176:199–210 (2019) used 1.5 (from memory)` },

@@ -1,6 +1,6 @@
 import { describe, expect, test } from "vitest";
 import fc from "fast-check";
-import { recordCompleteness, recordQuality, type CompletenessInput } from "./record-quality";
+import { completenessInputOf, recordCompleteness, recordQuality, type CompletenessInput } from "./record-quality";
 
 const full: CompletenessInput["fields"] = {
   laserPower: { present: true },
@@ -58,5 +58,17 @@ describe("recordQuality", () => {
 
   test("non-finite input is refused", () => {
     expect(() => recordQuality(Number.NaN, 1)).toThrow(RangeError);
+  });
+});
+
+describe("completenessInputOf", () => {
+  test("reads presence from the values and provenance from what was entered", () => {
+    const input = completenessInputOf({
+      laserPowerW: 200, scanSpeedMmPerS: 800, hatchSpacingUm: null, layerThicknessUm: 30, spotDiameterUm: 80, powderD50Um: null,
+      relativeDensityPct: null, outcome: "unknown", entered: { spotDiameter: { provenance: "assumed" }, laserPower: { provenance: "reported" } },
+    });
+    expect(input.fields.spotDiameter).toEqual({ present: true, provenance: "assumed" });
+    expect(input.fields.hatchSpacing?.present).toBe(false);
+    expect(input.fields.result?.present).toBe(false);
   });
 });

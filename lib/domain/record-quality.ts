@@ -107,3 +107,43 @@ export function recordQuality(sourceScore: number, completeness: number): number
   const q = Math.min(1, Math.max(0, sourceScore)) * Math.min(1, Math.max(0, completeness));
   return Math.round(q * 1000) / 1000;
 }
+
+/** What each completeness field reads from a record of the checks. */
+interface CompletenessSource {
+  laserPowerW: number | null;
+  scanSpeedMmPerS: number | null;
+  hatchSpacingUm: number | null;
+  layerThicknessUm: number | null;
+  spotDiameterUm: number | null;
+  powderD50Um: number | null;
+  relativeDensityPct: number | null;
+  outcome: string;
+  entered: Partial<Record<string, { provenance?: string }>>;
+}
+
+function provenanceOf(text: string | undefined): FieldProvenance | undefined {
+  return text === "reported" || text === "derived" || text === "assumed" ? text : undefined;
+}
+
+/**
+ * The completeness input of a record: a field is present when its canonical value is, with the
+ * provenance recorded when it was entered; the result is present when the outcome is known or a
+ * relative density is given.
+ *
+ * @example
+ * completenessInputOf(record).fields.spotDiameter; // { present: true, provenance: "assumed" }
+ */
+export function completenessInputOf(r: CompletenessSource): CompletenessInput {
+  const f = (value: number | null, field: string) => ({ present: value !== null, provenance: provenanceOf(r.entered[field]?.provenance) });
+  return {
+    fields: {
+      laserPower: f(r.laserPowerW, "laserPower"),
+      scanSpeed: f(r.scanSpeedMmPerS, "scanSpeed"),
+      hatchSpacing: f(r.hatchSpacingUm, "hatchSpacing"),
+      layerThickness: f(r.layerThicknessUm, "layerThickness"),
+      spotDiameter: f(r.spotDiameterUm, "spotDiameter"),
+      powderD50: f(r.powderD50Um, "powderD50"),
+      result: { present: (r.outcome !== "unknown" && r.outcome !== "") || r.relativeDensityPct !== null, provenance: provenanceOf(r.entered.relativeDensity?.provenance) },
+    },
+  };
+}

@@ -4,6 +4,7 @@ import { findOrCreateMaterialRaw, type MaterialSpec } from "../db/materials";
 import { insertRecordsRaw, type RecordWrite } from "../db/records";
 import { recordInputSchema } from "../schemas/record";
 import { requireRole, type Actor } from "./actor";
+import { checksAfterSave } from "./checks";
 import { prepareRecord } from "./record-write";
 import { fail, guard, ok, type Result } from "./result";
 
@@ -25,6 +26,8 @@ export interface BulkOptions {
   /** Audit action name for the one batch event. */
   auditAction?: string;
   now?: () => Date;
+  /** Leave the checks to a later batch run (`meltledger check`) instead of running them after the write. */
+  deferChecks?: boolean;
 }
 
 export interface BulkResult {
@@ -129,6 +132,8 @@ export async function insertRecordsBulk(inputs: readonly unknown[], actor: Actor
     if ("missingSource" in result) {
       return fail("invalid_input", `Source ${result.missingSource} does not exist; nothing was written.`, { fieldErrors: { sourceId: [`Source ${result.missingSource} does not exist.`] } });
     }
+    // Checks: flags and quality scores of the new records, after the write has committed.
+    if (!options.deferChecks) checksAfterSave(result.ids);
     return ok(result);
   });
 }

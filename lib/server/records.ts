@@ -7,6 +7,7 @@ import { recordInputSchema, recordUpdateSchema } from "../schemas/record";
 import { recordsQuerySchema, type RecordsQuery } from "../schemas/records-query";
 import { z } from "zod";
 import { requireRole, type Actor } from "./actor";
+import { checksAfterSave } from "./checks";
 import { prepareRecord } from "./record-write";
 import { AppFailure, fail, guard, invalid, ok, type Result } from "./result";
 
@@ -34,6 +35,8 @@ export async function createRecord(input: unknown, actor: Actor): Promise<Result
       await appendAudit(tx, { actorId: actor.id, actorName: actor.name, action: "create", entityType: "record", entityId: record.id, after: auditView(record) });
       return record;
     });
+    // Checks: flags and quality score of the new record, after the write has committed.
+    checksAfterSave([created.id]);
     return ok({ id: created.id, version: created.version });
   });
 }
@@ -71,6 +74,8 @@ export async function updateRecord(input: unknown, actor: Actor): Promise<Result
       await appendAudit(tx, { actorId: actor.id, actorName: actor.name, action: "update", entityType: "record", entityId: id, before: auditView(before), after: auditView(after), reason });
       return after;
     });
+    // Checks: re-judge the edited record (and its duplicate pairs), after the write has committed.
+    checksAfterSave([saved.id]);
     return ok({ id: saved.id, version: saved.version });
   });
 }

@@ -7,6 +7,7 @@ import { getRecordWithHistory } from "@/lib/server/record-history";
 import { Alert } from "../../_components/alert";
 import { AuditHistory } from "../../_components/audit-history";
 import { fieldLabel } from "../../_components/audit-diff";
+import { FlashNotice } from "../../_components/flash-notice";
 import { ButtonLink } from "../../_components/button";
 import { formatDateTime, formatNumber, formatSignificant, plural } from "../../_components/format";
 import { spotDefinitionShort } from "../../_components/labels";
@@ -19,7 +20,7 @@ import { rejectRecordAction } from "../actions";
 
 export const dynamic = "force-dynamic";
 
-type Props = { params: Promise<{ id: string }>; searchParams: Promise<{ saved?: string }> };
+type Props = { params: Promise<{ id: string }> };
 
 export async function generateMetadata({ params }: Props) {
   const { id } = await params;
@@ -29,8 +30,8 @@ export async function generateMetadata({ params }: Props) {
 const SAVED: Record<string, string> = { created: "Record saved", updated: "Changes saved", rejected: "Record rejected" };
 const PROVENANCE: Record<string, string> = { reported: "Reported", derived: "Derived", assumed: "Assumed default" };
 
-export default async function RecordPage({ params, searchParams }: Props) {
-  const [{ id }, { saved }] = await Promise.all([params, searchParams]);
+export default async function RecordPage({ params }: Props) {
+  const { id } = await params;
   const result = await getRecordWithHistory(Number(id));
   if (!result.ok) {
     if (result.error.code === "not_found") notFound();
@@ -59,7 +60,7 @@ export default async function RecordPage({ params, searchParams }: Props) {
         }
         actions={editable ? <ButtonLink href={`/records/${r.id}/edit`} variant="primary">Edit record</ButtonLink> : undefined}
       />
-      {saved && SAVED[saved] ? <Alert tone="info" title={SAVED[saved]} /> : null}
+      <FlashNotice key={r.version} entity={`record-${r.id}`} messages={SAVED} />
       {r.status === "rejected" ? (
         <Alert tone="warning" title="This record is rejected">
           <p>It stays in the collection for the history and is left out of exports.{rejection?.reason ? ` Reason: ${rejection.reason}` : ""}</p>

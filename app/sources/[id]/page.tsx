@@ -1,6 +1,7 @@
+import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getSourceDetail } from "@/lib/server/source-detail";
-import { Alert } from "../../_components/alert";
+import { FlashNotice } from "../../_components/flash-notice";
 import { AuditHistory } from "../../_components/audit-history";
 import { ButtonLink } from "../../_components/button";
 import { formatDateTime, formatNumber, plural } from "../../_components/format";
@@ -12,15 +13,17 @@ import { densityMethodLabel, kindLabel, outcomeEvidenceLabel, spotDefinitionLabe
 
 export const dynamic = "force-dynamic";
 
-type Props = { params: Promise<{ id: string }>; searchParams: Promise<{ saved?: string }> };
+type Props = { params: Promise<{ id: string }> };
+
+const SAVED: Record<string, string> = { created: "Source added", updated: "Changes saved" };
 
 export async function generateMetadata({ params }: Props) {
   const { id } = await params;
   return { title: `Source ${id}` };
 }
 
-export default async function SourcePage({ params, searchParams }: Props) {
-  const [{ id }, { saved }] = await Promise.all([params, searchParams]);
+export default async function SourcePage({ params }: Props) {
+  const { id } = await params;
   const result = await getSourceDetail(Number(id));
   if (!result.ok) {
     if (result.error.code === "not_found") notFound();
@@ -31,7 +34,7 @@ export default async function SourcePage({ params, searchParams }: Props) {
   return (
     <>
       <PageHeader
-        eyebrow={<a href="/sources">Sources</a>}
+        eyebrow={<Link href="/sources">Sources</Link>}
         title={s.title}
         description={[kindLabel(s.kind), s.year, s.venue].filter(Boolean).join(" · ")}
         actions={
@@ -40,7 +43,7 @@ export default async function SourcePage({ params, searchParams }: Props) {
           </ButtonLink>
         }
       />
-      {saved ? <Alert tone="info" title={saved === "created" ? "Source added" : "Changes saved"} /> : null}
+      <FlashNotice key={s.version} entity={`source-${s.id}`} messages={SAVED} />
       <div className="two-column">
         <div>
           <section className="panel" aria-labelledby="details">

@@ -1,4 +1,5 @@
 import { describe, expect, test } from "vitest";
+import { resolveAlloy } from "../alloys";
 import { defaultCheckSettings } from "../check-settings";
 import { checkRecordOf } from "./check-record-fixture";
 import { outcomeVersusPhysics } from "./physics";
@@ -24,6 +25,21 @@ describe("physicsProvider", () => {
     ["unknown alloy without composition", { alloyKey: "Mystery-9", components: [] }],
   ] as const)("%s: no assessment", (_label, overrides) => {
     expect(physics(checkRecordOf(overrides))).toBeNull();
+  });
+
+  test.each([
+    ["316L", 200, 800, 100, 30, 80],
+    ["316L", 280, 1000, 100, 40, 100],
+    ["Ti-6Al-4V", 280, 1200, 140, 30, 100],
+    ["Ti-6Al-4V", 175, 1000, 100, 30, 70],
+    ["AlSi10Mg", 370, 1300, 190, 30, 100],
+    ["IN718", 285, 960, 110, 40, 100],
+    ["IN718", 200, 800, 100, 30, 80],
+  ] as const)("common dense parameters of %s (%s W, %s mm/s, h %s, t %s, d %s µm) raise no conflict", (alloy, p, v, h, t, d) => {
+    const grade = resolveAlloy(alloy);
+    if (!grade.ok) throw new Error(alloy);
+    const r = checkRecordOf({ alloyKey: grade.alloyKey, components: grade.components, laserPowerW: p, scanSpeedMmPerS: v, hatchSpacingUm: h, layerThicknessUm: t, spotDiameterUm: d });
+    expect(outcomeVersusPhysics(r, physics(r), settings)).toBeNull();
   });
 
   test("a fast, weak track labelled dense contradicts the lack-of-fusion criteria", () => {

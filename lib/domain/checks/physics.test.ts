@@ -32,36 +32,41 @@ describe("criterionMargin", () => {
 
 describe("outcomeVersusPhysics", () => {
   test.each([
-    // outcome, LoF value, keyhole W/D, balling L/W, conflict?  (margins: (v−T)/T or (T−v)/T)
+    // outcome, LoF value, keyhole W/D, balling L/W, conflict?  Margins (v−T)/T or (T−v)/T; defaults LoF 0.75,
+    // keyhole 0.75, balling 3; "clear" means at least min(margin, 0.5) on the other side.
     ["dense", 0.6, 4, 1.5, false], // nothing predicted
-    ["dense", 1.2, 4, 1.5, false], // LoF 20 % beyond: inside the margin
-    ["dense", 1.5, 4, 1.5, true], // LoF 50 % beyond
-    ["dense", 0.6, 1.5, 1.5, true], // keyhole W/D 1.5: 40 % beyond
-    ["lack_of_fusion", 0.6, 4, 1.5, true], // full fusion predicted by 40 %
-    ["lack_of_fusion", 0.9, 4, 1.5, false], // only 10 % clear
-    ["keyhole", 1.6, 5, 1.5, true], // keyhole clear by 100 %, LoF strongly predicted
+    ["dense", 1.5, 4, 1.5, false], // LoF 50 % beyond: inside the margin
+    ["dense", 1.8, 4, 1.5, true], // LoF 80 % beyond
+    ["dense", 0.6, 1.5, 1.5, false], // keyhole W/D 1.5: 40 % beyond, inside the margin
+    ["dense", 0.6, 0.5, 1.5, true], // keyhole W/D 0.5: 80 % beyond
+    ["dense", 0.6, 4, 7, false], // L/W 7: 204 % beyond, inside the balling margin
+    ["dense", 0.6, 4, 10, true], // L/W 10: 335 % beyond
+    ["lack_of_fusion", 0.4, 4, 1.5, true], // full fusion predicted, 60 % clear
+    ["lack_of_fusion", 0.6, 4, 1.5, false], // only 40 % clear
+    ["keyhole", 1.8, 5, 1.5, true], // keyhole clear by 100 %, LoF strongly predicted
     ["keyhole", 0.6, 5, 1.5, false], // keyhole clear but nothing else predicted: conduction model may miss it
-    ["balling", 0.6, 1.5, 1.2, true], // balling clear by 48 %, keyhole strongly predicted
-    ["cracking", 1.6, 1.5, 3, false], // not judged
-    ["unknown", 1.6, 1.5, 3, false],
+    ["balling", 0.6, 0.5, 1.0, true], // balling clear by 57 %, keyhole strongly predicted
+    ["cracking", 1.8, 0.5, 10, false], // not judged
+    ["unknown", 1.8, 0.5, 10, false],
   ] as const)("%s with LoF %s, W/D %s, L/W %s -> conflict %s", (outcome, lof, wd, lw, conflict) => {
     const f = outcomeVersusPhysics(checkRecordOf({ outcome }), assessment(lof, wd, lw), settings);
     expect(f !== null).toBe(conflict);
     if (f) {
       expect(f.code).toBe("physics.outcome_conflict");
       expect(f.details.criteria).toHaveLength(3);
-      expect(f.details.thresholds).toEqual({ margin: 0.25 });
+      expect(f.details.thresholds).toEqual({ marginLackOfFusion: 0.75, marginKeyhole: 0.75, marginBalling: 3 });
     }
   });
 
   test("the message names the criterion, its value and threshold", () => {
-    const f = outcomeVersusPhysics(checkRecordOf({ outcome: "dense" }), assessment(1.5, 4, 1.5), settings);
+    const f = outcomeVersusPhysics(checkRecordOf({ outcome: "dense" }), assessment(1.8, 4, 1.5), settings);
     expect(f?.message).toMatch(/lack of fusion/);
-    expect(f?.message).toMatch(/\(h\/W\)\^2 \+ t\/\(t \+ D\) = 1\.5 \(lack of fusion at ≥ 1, 50 % beyond\)/);
+    expect(f?.message).toMatch(/\(h\/W\)\^2 \+ t\/\(t \+ D\) = 1\.8 \(lack of fusion at ≥ 1, 80 % beyond\)/);
   });
 
   test("the margin is a setting", () => {
-    expect(outcomeVersusPhysics(checkRecordOf(), assessment(1.2, 4, 1.5), { ...settings, "physics.margin": 0.1 })).not.toBeNull();
+    expect(outcomeVersusPhysics(checkRecordOf(), assessment(1.2, 4, 1.5), settings)).toBeNull();
+    expect(outcomeVersusPhysics(checkRecordOf(), assessment(1.2, 4, 1.5), { ...settings, "physics.margin.lackOfFusion": 0.1 })).not.toBeNull();
   });
 
   test("no assessment, no finding", () => {

@@ -7,7 +7,8 @@
  * A conduction-mode model underestimates depth once keyholing starts (DOMAIN.md), so a keyhole
  * label is contradicted only when the keyhole criteria are clear by the margin and another defect
  * is strongly predicted; the same holds for balling. A lack-of-fusion label is contradicted when
- * full fusion is predicted by the margin (a deeper real pool only strengthens that).
+ * full fusion is predicted by the margin (a deeper real pool only strengthens that). Each mechanism
+ * has its own margin; "clear" means clear by that margin, at most 50 %.
  */
 import { settingOf, type CheckSettings } from "../check-settings";
 import { fmt } from "./fields";
@@ -75,7 +76,7 @@ export const PHYSICS_RULE_INFO: RuleInfo = {
     "The recorded outcome disagrees with the melt-pool criteria by more than the margin: labelled dense where a defect is strongly predicted, labelled lack of fusion where full fusion is predicted, or labelled keyhole or balling where that criterion is clear and another defect is strongly predicted. Check the outcome and the four process values against the source; the criteria are indicators, so waive with a reason when the source's evidence is clear.",
   source:
     "Eagar & Tsai, Welding Journal 62(12):346s–355s (1983) melt pool; criteria as listed by Sheikh et al., npj Comput. Mater. 10:252 (2024); Tang, Pistorius & Beuth, Addit. Manuf. 14:39–48 (2017) for overlap (from memory)",
-  thresholdKeys: ["physics.margin", "physics.lackOfFusion.overlap", "physics.balling.lengthToWidth", "physics.keyhole.widthToDepth"],
+  thresholdKeys: ["physics.margin.lackOfFusion", "physics.margin.keyhole", "physics.margin.balling", "physics.lackOfFusion.overlap", "physics.balling.lengthToWidth", "physics.keyhole.widthToDepth"],
   scope: "record",
 };
 
@@ -96,13 +97,18 @@ function describe(c: CriterionValue, margin: number): string {
  */
 export function outcomeVersusPhysics(record: CheckRecord, physics: PhysicsAssessment | null, settings: CheckSettings): Finding | null {
   if (!physics) return null;
-  const margin = settingOf(settings, "physics.margin");
+  const margins: Record<DefectMode, number> = {
+    lack_of_fusion: settingOf(settings, "physics.margin.lackOfFusion"),
+    keyhole: settingOf(settings, "physics.margin.keyhole"),
+    balling: settingOf(settings, "physics.margin.balling"),
+  };
   const modes: DefectMode[] = ["lack_of_fusion", "keyhole", "balling"];
   const byMode = new Map(modes.map((m) => [m, strongest(physics.criteria, m)]));
+  // Strongly predicted: beyond the mechanism's margin; ordered by how far past it.
   const predicted = modes
     .map((m) => byMode.get(m))
-    .filter((x): x is { criterion: CriterionValue; margin: number } => x !== null && x !== undefined && x.margin >= margin)
-    .sort((a, b) => b.margin - a.margin);
+    .filter((x): x is { criterion: CriterionValue; margin: number } => x !== null && x !== undefined && x.margin >= margins[x.criterion.mode])
+    .sort((a, b) => b.margin - margins[b.criterion.mode] - (a.margin - margins[a.criterion.mode]));
   const outcome = record.outcome;
   let message: string | null = null;
   if (outcome === "dense" && predicted[0]) {
@@ -110,18 +116,18 @@ export function outcomeVersusPhysics(record: CheckRecord, physics: PhysicsAssess
     message = `Labelled dense, but the melt-pool model strongly predicts ${LABEL[p.criterion.mode]}: ${describe(p.criterion, p.margin)}.`;
   } else if (outcome === "lack_of_fusion") {
     const lof = byMode.get("lack_of_fusion");
-    if (lof && lof.margin <= -margin) message = `Labelled lack of fusion, but the melt-pool model predicts full fusion: ${describe(lof.criterion, lof.margin)}.`;
+    if (lof && lof.margin <= -clear(margins.lack_of_fusion)) message = `Labelled lack of fusion, but the melt-pool model predicts full fusion: ${describe(lof.criterion, lof.margin)}.`;
   } else if (outcome === "keyhole" || outcome === "balling") {
     const own = byMode.get(outcome);
     const other = predicted.find((p) => p.criterion.mode !== outcome);
-    if (own && own.margin <= -margin && other) {
+    if (own && own.margin <= -clear(margins[outcome]) && other) {
       message = `Labelled ${LABEL[outcome]}, but that criterion is clear (${describe(own.criterion, own.margin)}) while ${LABEL[other.criterion.mode]} is strongly predicted (${describe(other.criterion, other.margin)}).`;
     }
   }
   if (!message) return null;
   const details = {
     inputs: { outcome: record.outcome, model: physics.model, widthUm: round(physics.meltPool.widthUm), depthUm: round(physics.meltPool.depthUm), lengthUm: round(physics.meltPool.lengthUm), ...physics.inputs },
-    thresholds: { margin },
+    thresholds: { marginLackOfFusion: margins.lack_of_fusion, marginKeyhole: margins.keyhole, marginBalling: margins.balling },
     criteria: physics.criteria.map((c) => ({ ...c, value: c.value === null ? null : round(c.value), margin: c.margin === null ? null : round(c.margin) })),
     notes: [...physics.notes],
   };
@@ -131,6 +137,11 @@ export function outcomeVersusPhysics(record: CheckRecord, physics: PhysicsAssess
     message: `${message} Check the outcome and the process values against the source; waive with the source's evidence if the label stands.`,
     details,
   };
+}
+
+/** How far a criterion must be clear to count as clearly not predicted: the margin, at most 50 % (a margin is at most −100 % on that side). */
+function clear(margin: number): number {
+  return Math.min(margin, 0.5);
 }
 
 function round(x: number): number {

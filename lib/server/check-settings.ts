@@ -1,0 +1,93 @@
+import { completeCheckSettings, CHECK_SETTING_DEFS, defaultCheckSettings, type CheckSettings } from "../domain/check-settings";
+import type { SettingDef } from "../domain/setting-def";
+import { appendAuditRaw } from "../db/audit-raw";
+import { sqlite, type SqliteDatabase } from "../db/connection";
+import { getSettingsVersion, insertSettingsVersion, latestSettingsVersion, listSettingsVersions } from "../db/settings";
+import { checkSettingsInputSchema } from "../schemas/check-settings";
+import { requireRole, type Actor } from "./actor";
+import { fail, guard, invalid, ok, type Result } from "./result";
+
+/** The settings key under which check thresholds and quality weights are versioned. */
+export const CHECK_SETTINGS_KEY = "checks";
+
+export interface SettingsVersionInfo {
+  version: number;
+  values: CheckSettings;
+  createdAt: string;
+  createdByName: string | null;
+}
+
+export const isoNow = (now: Date = new Date()) => now.toISOString().replace("Z", "+00:00");
+
+/**
+ * The newest settings version; the defaults are stored as the first version when none exists, so
+ * every flag can name the version it was raised under.
+ */
+export function currentCheckSettingsSync(db: SqliteDatabase = sqlite()): SettingsVersionInfo {
+  let row = latestSettingsVersion(db, CHECK_SETTINGS_KEY);
+  if (!row) {
+    db.transaction(() => {
+      if (!latestSettingsVersion(db, CHECK_SETTINGS_KEY)) insertSettingsVersion(db, CHECK_SETTINGS_KEY, defaultCheckSettings(), null, isoNow());
+    })();
+    row = latestSettingsVersion(db, CHECK_SETTINGS_KEY)!;
+  }
+  return { version: row.id, values: completeCheckSettings((row.value ?? {}) as Record<string, unknown>), createdAt: row.createdAt, createdByName: row.createdByName };
+}
+
+/** A stored version by id, or null when there is none of that id. */
+export function checkSettingsVersionSync(id: number, db: SqliteDatabase = sqlite()): SettingsVersionInfo | null {
+  const row = getSettingsVersion(db, CHECK_SETTINGS_KEY, id);
+  return row ? { version: row.id, values: completeCheckSettings((row.value ?? {}) as Record<string, unknown>), createdAt: row.createdAt, createdByName: row.createdByName } : null;
+}
+
+export interface CheckSettingsPage {
+  current: SettingsVersionInfo;
+  defs: readonly SettingDef[];
+  versions: { version: number; createdAt: string; createdByName: string | null; changed: string[] }[];
+}
+
+/** The current settings with their definitions and the version history (what changed in each). */
+export async function getCheckSettings(): Promise<Result<CheckSettingsPage>> {
+  return guard(async () => {
+    const db = sqlite();
+    const current = currentCheckSettingsSync(db);
+    const rows = listSettingsVersions(db, CHECK_SETTINGS_KEY, 50);
+    const versions = rows.map((r, i) => {
+      const values = completeCheckSettings((r.value ?? {}) as Record<string, unknown>);
+      const previous = rows[i + 1] ? completeCheckSettings((rows[i + 1]!.value ?? {}) as Record<string, unknown>) : defaultCheckSettings();
+      const changed = CHECK_SETTING_DEFS.filter((d) => values[d.key] !== previous[d.key]).map((d) => `${d.key}: ${previous[d.key]} → ${values[d.key]}`);
+      return { version: r.id, createdAt: r.createdAt, createdByName: r.createdByName, changed };
+    });
+    return ok({ current, defs: CHECK_SETTING_DEFS, versions });
+  });
+}
+
+/**
+ * Saves a new settings version (reviewers only). The editor names the version they started from;
+ * if another version was saved meanwhile, nothing is saved and a conflict says which.
+ */
+export async function saveCheckSettings(input: unknown, actor: Actor): Promise<Result<{ version: number }>> {
+  return guard(async () => {
+    requireRole(actor, "reviewer");
+    const parsed = checkSettingsInputSchema.safeParse(input);
+    if (!parsed.success) return invalid(parsed.error, "Some settings need attention; nothing was saved.");
+    const db = sqlite();
+    const result = db.transaction((): Result<{ version: number }> => {
+      const current = currentCheckSettingsSync(db);
+      if (parsed.data.basedOnVersion !== null && parsed.data.basedOnVersion !== current.version) {
+        return fail("conflict", `Settings version ${current.version} was saved after you opened version ${parsed.data.basedOnVersion}; nothing was saved. Reload to see it, then apply your changes again.`, { currentVersion: current.version });
+      }
+      const values = { ...current.values, ...parsed.data.values };
+      const changed = CHECK_SETTING_DEFS.filter((d) => values[d.key] !== current.values[d.key]).map((d) => d.key);
+      if (!changed.length) return fail("invalid_input", "No setting differs from the current version; nothing was saved.");
+      const at = isoNow();
+      const version = insertSettingsVersion(db, CHECK_SETTINGS_KEY, values, actor.id, at);
+      appendAuditRaw(db, {
+        actorId: actor.id, actorName: actor.name, action: "update", entityType: "settings", entityId: `${CHECK_SETTINGS_KEY}:${version}`,
+        before: Object.fromEntries(changed.map((k) => [k, current.values[k]])), after: Object.fromEntries(changed.map((k) => [k, values[k]])), reason: parsed.data.reason, at,
+      });
+      return ok({ version });
+    })();
+    return result;
+  });
+}
