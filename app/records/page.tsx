@@ -2,7 +2,7 @@ import { getRecordsBrowser } from "@/lib/server/records-facets";
 import { LoadError } from "../_components/load-error";
 import { PageHeader } from "../_components/page-header";
 import { RecordsTable } from "./_components/records-table";
-import { paramsFromTableState, queryInputFromTableState, tableStateFromParams, toURLSearchParams } from "./_lib/records-url";
+import { queryInputFromTableState, queryStringOf, tableStateFromParams, toURLSearchParams } from "./_lib/records-url";
 
 export const dynamic = "force-dynamic";
 export const metadata = { title: "Records" };
@@ -17,7 +17,7 @@ export default async function RecordsPage({ searchParams }: { searchParams: Prom
       <PageHeader title="Records" description="Every value in its canonical unit. Filter, sort and choose columns; the address bar keeps the view, so it can be shared or bookmarked." />
       <RecordsTable
         facets={facets}
-        initialKey={paramsFromTableState(state).toString()}
+        initialKey={queryStringOf(state)}
         initialPage={page ? { rows: page.rows, total: page.total, page: page.query.page, pageSize: page.query.pageSize } : null}
         initialError={queryError}
       />

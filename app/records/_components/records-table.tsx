@@ -15,7 +15,7 @@ import { OutcomeLabel, outcomeText } from "../../_components/outcome-label";
 import { outcomeColour } from "../../_components/palette";
 import { StatusBadge, statusLabel } from "../../_components/status-badge";
 import type { ApiErrorBody, RecordFacets, RecordsApiPage, RecordsApiRow } from "../_lib/api-types";
-import { PAGE_SIZES, RANGE_PARAM_NAMES, paramsFromTableState, rangeParamOf, tableStateFromParams, type RangeParam, type TableState } from "../_lib/records-url";
+import { PAGE_SIZES, RANGE_PARAM_NAMES, queryStringOf, rangeParamOf, tableStateFromParams, type RangeParam, type TableState } from "../_lib/records-url";
 
 declare module "@tanstack/react-table" {
   // eslint-disable-next-line @typescript-eslint/no-unused-vars
@@ -114,11 +114,11 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
   // The address bar is the source of truth; the local copy makes a click show at once
   // (the router updates search params a moment after pushState) and follows back/forward.
   const urlState = useMemo(() => tableStateFromParams(searchParams), [searchParams]);
-  const urlKey = useMemo(() => paramsFromTableState(urlState).toString(), [urlState]);
+  const urlKey = useMemo(() => queryStringOf(urlState), [urlState]);
   const [state, setState] = useState(urlState);
   // follow the URL only when its meaning changes, not on every new params object
   useEffect(() => setState(urlState), [urlKey]);
-  const key = useMemo(() => paramsFromTableState(state).toString(), [state]);
+  const key = useMemo(() => queryStringOf(state), [state]);
 
   const [loaded, setLoaded] = useState<{ key: string; page: RecordsApiPage | null; error: ApiError | null }>({ key: initialKey, page: initialPage, error: initialError });
   const [loading, setLoading] = useState(false);
@@ -146,7 +146,7 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
   }, [key]);
 
   const navigate = useCallback((next: TableState) => {
-    const qs = paramsFromTableState(next).toString();
+    const qs = queryStringOf(next);
     setState(next);
     window.history.pushState(null, "", qs ? `?${qs}` : window.location.pathname);
   }, []);
@@ -163,7 +163,7 @@ export function RecordsTable({ facets, initialPage, initialError, initialKey }: 
     }
   }, [key, state]);
   const draftState = useMemo(() => withDrafts(state, drafts), [state, drafts]);
-  const draftKey = paramsFromTableState(draftState).toString();
+  const draftKey = queryStringOf(draftState);
   useEffect(() => {
     if (draftKey === key) return;
     const t = window.setTimeout(() => navigate({ ...draftState, page: 0 }), 450);

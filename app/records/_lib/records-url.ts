@@ -106,6 +106,11 @@ export function paramsFromTableState(s: TableState): URLSearchParams {
   return p;
 }
 
+/** The query string of a table state, with list commas left readable ("alloy=316L,IN718"). */
+export function queryStringOf(s: TableState): string {
+  return paramsFromTableState(s).toString().replace(/%2C/gi, ",");
+}
+
 /** The table state in the input shape of recordsQuerySchema (the schema coerces and checks it). */
 export function queryInputFromTableState(s: TableState): Record<string, unknown> {
   const ranges: Record<string, { min: string | null; max: string | null }> = {};
