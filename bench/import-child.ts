@@ -21,4 +21,4 @@ clearInterval(sampler);
 if (!r.ok) throw new Error(r.error.message);
 await disconnectPrisma();
 closeSqlite();
-process.stdout.write(`${JSON.stringify({ ms, peakRssBytes: peak, rssBeforeBytes: rssBefore, maxRssBytes: process.resourceUsage().maxRSS * 1024, imported: r.data.imported, createdSources: r.data.createdSources.length })}\n`);
+process.stdout.write(`${JSON.stringify({ ms, peakRssBytes: peak, rssBeforeBytes: rssBefore, maxRssBytes: process.resourceUsage().maxRSS * 1024, imported: r.data.imported, createdSources: r.data.createdSources.length, checksMs: r.data.checks?.ms ?? 0, flagsOpened: r.data.checks?.opened ?? 0 })}\n`);

@@ -190,6 +190,15 @@ export async function listDocuments(sourceId: number): Promise<Result<SourceDocu
   return guard(async () => ok(await listSourceDocuments(sourceId)));
 }
 
+/** A source's PDFs and its DOI, for the paper pane (which offers a DOI found in the paper). */
+export async function getSourcePapers(sourceId: number): Promise<Result<{ documents: SourceDocumentRow[]; sourceDoi: string | null }>> {
+  return guard(async () => {
+    const source = Number.isInteger(sourceId) && sourceId > 0 ? await getSource(sourceId) : null;
+    if (!source) return fail("not_found", `Source ${sourceId} does not exist.`);
+    return ok({ documents: await listSourceDocuments(sourceId), sourceDoi: source.doi });
+  });
+}
+
 /** A source document's bytes for the PDF pane. */
 export async function openDocument(documentId: number): Promise<Result<{ document: SourceDocumentRow; stream: ReadStream; sizeBytes: number }>> {
   return guard(async () => {

@@ -13,6 +13,7 @@ import { mapImportRow, type RowProblem } from "../domain/import-row";
 import { normalizeBox, type PdfBox } from "../domain/pdf-table";
 import { looksLikeHeader, PASTE_SPLITTERS, splitTableText, type PasteSplitter } from "../domain/table-text";
 import { requireRole, type Actor } from "./actor";
+import { checksAfterSave } from "./checks";
 import { prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
 import { fail, guard, ok, type Result } from "./result";
 
@@ -169,12 +170,14 @@ export interface ImportOptions {
   onProgress?: (p: ImportProgress) => void;
   /** How many mapped rows the preview returns. */
   sampleSize?: number;
+  /** Leave the plausibility and duplicate checks to a later batch run instead of running them after the commit. */
+  deferChecks?: boolean;
   now?: () => Date;
 }
 
 export interface ImportProgress {
-  /** "reading": rows are read, checked and written as they come; "done": committed or rolled back. */
-  phase: "reading" | "done";
+  /** "reading": rows are read, validated and written as they come; "checking": the committed records go through the plausibility and duplicate checks; "done". */
+  phase: "reading" | "checking" | "done";
   rowsRead: number;
   rowsWritten: number;
   /** Rows written in the end, once known. */
@@ -226,6 +229,8 @@ export interface ImportCommit {
   createdSources: { doi: string | null; url: string | null; id: number }[];
   unmapped: string[];
   mappingIssues: MappingIssue[];
+  /** The checks run on the imported records after the commit (null when deferred, nothing was written, or they failed). */
+  checks: { opened: number; openByCode: Record<string, number>; ms: number } | null;
 }
 
 /** Stands in for a source the preview has not created (a DOI not yet in the collection). */
@@ -515,7 +520,7 @@ async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOp
   const cancelledResult = (): Result<ImportCommit> => {
     const id = run("cancelled", null);
     options.onProgress?.({ phase: "done", rowsRead: 0, rowsWritten: 0, rowsTotal: 0 });
-    return ok({ status: "cancelled", importRunId: id, imported: 0, excluded: 0, errors: [], warnings: [], records: [], createdSources: [], unmapped: [], mappingIssues: [] });
+    return ok({ status: "cancelled", importRunId: id, imported: 0, excluded: 0, errors: [], warnings: [], records: [], createdSources: [], unmapped: [], mappingIssues: [], checks: null });
   };
 
   let writer: Writer | null = null;
@@ -553,7 +558,7 @@ async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOp
       return fail("invalid_input", `${analysis.errorRows} of ${analysis.rowCount} rows have problems; nothing was written. Fix them, or choose to leave those rows out.`, { rowErrors: errors, ...base, rowCount: analysis.rowCount });
     }
     if (!writer) {
-      return ok({ status: "dry_run", importRunId: null, imported: validRows, excluded: analysis.errorRows, ...base, records: [], createdSources: [] });
+      return ok({ status: "dry_run", importRunId: null, imported: validRows, excluded: analysis.errorRows, ...base, records: [], createdSources: [], checks: null });
     }
     const imported = writer.ids.length;
     finishImportRunRaw(db, writer.runId, { rowCount: analysis.rowCount, importedCount: imported, excludedCount: analysis.errorRows });
@@ -568,8 +573,16 @@ async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOp
     }
     db.exec("COMMIT");
     open = false;
+    let checks: ImportCommit["checks"] = null;
+    if (!options.deferChecks && imported > 0) {
+      options.onProgress?.({ phase: "checking", rowsRead: analysis.rowCount, rowsWritten: imported, rowsTotal: imported });
+      await yieldToLoop();
+      // the records are committed; a failure here is logged and left to `meltledger check`
+      const summary = checksAfterSave(writer.ids.map((r) => r.id));
+      if (summary) checks = { opened: summary.opened + summary.reopened, openByCode: summary.openByCode, ms: summary.ms };
+    }
     options.onProgress?.({ phase: "done", rowsRead: analysis.rowCount, rowsWritten: imported, rowsTotal: imported });
-    return ok({ status: "committed", importRunId: writer.runId, imported, excluded: analysis.errorRows, ...base, records: writer.ids, createdSources: writer.createdSources });
+    return ok({ status: "committed", importRunId: writer.runId, imported, excluded: analysis.errorRows, ...base, records: writer.ids, createdSources: writer.createdSources, checks });
   } finally {
     rollback();
   }

@@ -101,6 +101,9 @@ print(json.dumps({"rows": len(d), "dois": sorted({doi(x) for x in d["DOI"] if do
     expect(keys).toEqual(["18Ni300", "316L", "AlSi10Mg", "CuCrZr", "IN718", "Ti-6Al-4V"]);
     const outcomes = db.prepare(`SELECT DISTINCT outcome FROM BuildRecord WHERE importRunId = ?`).all(r.data.importRunId);
     expect(outcomes).toEqual([{ outcome: "unknown" }]);
+    // the checks ran on the committed records: SOURCE.md lists 9 rows that repeat another row but for "No."
+    expect(r.data.checks).not.toBeNull();
+    expect(r.data.checks!.openByCode["duplicate.exact"]).toBeGreaterThanOrEqual(9);
     const run = db.prepare(`SELECT * FROM ImportRun WHERE id = ?`).get(r.data.importRunId) as Record<string, unknown>;
     expect(run).toMatchObject({ format: "xlsx", sheet: "data", rowCount: 1579, importedCount: 1579, excludedCount: 0, status: "committed" });
   }, 120_000);

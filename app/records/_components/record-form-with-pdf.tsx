@@ -8,16 +8,21 @@ import { RecordForm, type RecordFormProps } from "./record-form";
  * The record form, with the source's PDF beside it when the source has one: the page in view fills
  * the record's page, and a table boxed on a page goes to the import step.
  */
-export function RecordFormWithPdf({ sourceId, sourceDoi, ...form }: Omit<RecordFormProps, "pageInView"> & { sourceId: number | null; sourceDoi?: string | null }) {
+export function RecordFormWithPdf({ sourceId, ...form }: Omit<RecordFormProps, "pageInView"> & { sourceId: number | null }) {
   const [documents, setDocuments] = useState<PdfDocumentRef[]>([]);
+  const [sourceDoi, setSourceDoi] = useState<string | null>(null);
   const [page, setPage] = useState<number | null>(null);
 
   useEffect(() => {
     if (!sourceId) return;
     let cancelled = false;
     fetch(`/api/sources/${sourceId}/documents`)
-      .then((r) => (r.ok ? (r.json() as Promise<{ documents: PdfDocumentRef[] }>) : { documents: [] }))
-      .then((b) => !cancelled && setDocuments(b.documents))
+      .then((r) => (r.ok ? (r.json() as Promise<{ documents: PdfDocumentRef[]; sourceDoi: string | null }>) : { documents: [], sourceDoi: null }))
+      .then((b) => {
+        if (cancelled) return;
+        setDocuments(b.documents);
+        setSourceDoi(b.sourceDoi);
+      })
       .catch(() => undefined);
     return () => {
       cancelled = true;
@@ -31,7 +36,7 @@ export function RecordFormWithPdf({ sourceId, sourceDoi, ...form }: Omit<RecordF
         <RecordForm {...form} pageInView={page} />
       </div>
       <div className="record-with-pdf__pane">
-        <PdfPane documents={documents} sourceId={sourceId} sourceDoi={sourceDoi ?? null} onPageChange={setPage} />
+        <PdfPane documents={documents} sourceId={sourceId} sourceDoi={sourceDoi} onPageChange={setPage} />
       </div>
     </div>
   );

@@ -7,6 +7,7 @@ import { ButtonLink } from "../../_components/button";
 import { formatDateTime, formatNumber, plural } from "../../_components/format";
 import { LoadError } from "../../_components/load-error";
 import { PageHeader } from "../../_components/page-header";
+import { SourceDocuments } from "../_components/source-documents";
 import { SourceForm } from "../_components/source-form";
 import { updateSourceAction } from "../actions";
 import { densityMethodLabel, kindLabel, outcomeEvidenceLabel, spotDefinitionLabel } from "../_lib/labels";
@@ -99,6 +100,7 @@ export default async function SourcePage({ params }: Props) {
               <ButtonLink href={`/records/new?sourceId=${s.id}`}>Key in a record</ButtonLink>
             </div>
           </section>
+          <SourceDocuments sourceId={s.id} sourceDoi={s.doi} />
           <section className="panel" aria-labelledby="history">
             <div className="panel__title">
               <h2 id="history">History</h2>

@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { localActor } from "@/lib/server/actor";
-import { attachPdfToSource, listDocuments } from "@/lib/server/files";
+import { attachPdfToSource, getSourcePapers } from "@/lib/server/files";
 import { errorResponse } from "../../../_lib/json";
 import { readUpload } from "../../../_lib/upload";
 
@@ -8,12 +8,12 @@ export const dynamic = "force-dynamic";
 
 type Params = { params: Promise<{ id: string }> };
 
-/** GET /api/sources/:id/documents: the source's PDFs. */
+/** GET /api/sources/:id/documents: the source's PDFs and its DOI. */
 export async function GET(_request: Request, { params }: Params) {
   const { id } = await params;
-  const result = await listDocuments(Number(id));
+  const result = await getSourcePapers(Number(id));
   if (!result.ok) return errorResponse(result.error);
-  return NextResponse.json({ documents: result.data });
+  return NextResponse.json(result.data);
 }
 
 /** POST /api/sources/:id/documents with a multipart "file": stores the PDF (once per content) and links it. */
