@@ -33,7 +33,7 @@ interface JobView {
   state: "running" | "finished";
   progress: { phase: string; rowsRead: number; rowsWritten: number; rowsTotal: number | null };
   result:
-    | { ok: true; data: { status: "committed" | "cancelled" | "dry_run"; importRunId: number | null; imported: number; excluded: number; recordCount: number; createdSources: { id: number; doi: string | null; url: string | null }[] } }
+    | { ok: true; data: { status: "committed" | "cancelled" | "dry_run"; importRunId: number | null; imported: number; excluded: number; recordCount: number; createdSources: { id: number; doi: string | null; url: string | null }[]; checks: { opened: number } | null } }
     | { ok: false; error: { code: string; message: string; details?: { rowErrors?: { row: number; field: string; message: string }[] } } }
     | null;
 }
@@ -495,7 +495,13 @@ export function ImportFlow({ sources, initialSourceId }: { sources: readonly { i
                 </Button>
               ) : null}
             </div>
-            {job && job.state === "running" ? <ProgressBar label="Importing" value={job.progress.rowsRead} max={preview.rowCount} detail={`${formatNumber(job.progress.rowsRead, 0)} read · ${formatNumber(job.progress.rowsWritten, 0)} written`} /> : null}
+            {job && job.state === "running" ? (
+              job.progress.phase === "checking" ? (
+                <ProgressBar label="Written; checking the new records for implausible values and duplicates" value={null} detail={`${formatNumber(job.progress.rowsWritten, 0)} records`} />
+              ) : (
+                <ProgressBar label="Importing" value={job.progress.rowsRead} max={preview.rowCount} detail={`${formatNumber(job.progress.rowsRead, 0)} read · ${formatNumber(job.progress.rowsWritten, 0)} written`} />
+              )
+            ) : null}
             {job?.result ? (
               job.result.ok ? (
                 job.result.data.status === "committed" ? (
@@ -504,7 +510,8 @@ export function ImportFlow({ sources, initialSourceId }: { sources: readonly { i
                     <p>
                       Import run {job.result.data.importRunId}
                       {job.result.data.excluded ? `; ${formatNumber(job.result.data.excluded, 0)} rows with errors left out` : ""}
-                      {job.result.data.createdSources.length ? `; ${job.result.data.createdSources.length} source(s) created from DOIs — complete their titles` : ""}. <Link href="/records">See the records</Link>
+                      {job.result.data.createdSources.length ? `; ${job.result.data.createdSources.length} source(s) created from DOIs — complete their titles` : ""}
+                      {job.result.data.checks ? `; the checks raised ${formatNumber(job.result.data.checks.opened, 0)} flag(s) for review` : ""}. <Link href="/records">See the records</Link>
                     </p>
                   </div>
                 ) : (

@@ -18,6 +18,8 @@ interface Output {
   unmapped: string[];
   import_run_id: number | null;
   created_sources: { id: number; doi: string | null; url: string | null }[];
+  /** Flags the checks raised on the imported records, by rule. */
+  checks?: { opened: number; open_by_code: Record<string, number> } | null;
   message?: string;
 }
 
@@ -31,7 +33,7 @@ function print(io: CliIo, out: Output, json: boolean): void {
   if (out.errors.length > 200) io.stderr(`  … and ${out.errors.length - 200} more\n`);
   if (out.unmapped.length) io.stdout(`Columns not imported: ${out.unmapped.join(", ")}\n`);
   if (out.warnings.length) io.stdout(`${out.warnings.length} warning(s), e.g. row ${out.warnings[0]!.row}, ${out.warnings[0]!.field}: ${out.warnings[0]!.message}\n`);
-  if (out.status !== "refused") io.stdout(`${out.status === "dry_run" ? "Would import" : "Imported"} ${out.imported} record(s); ${out.excluded} row(s) left out; ${out.created_sources.length} source(s) ${out.status === "dry_run" ? "to create" : "created"}.\n`);
+  if (out.status !== "refused") io.stdout(`${out.status === "dry_run" ? "Would import" : "Imported"} ${out.imported} record(s); ${out.excluded} row(s) left out; ${out.created_sources.length} source(s) ${out.status === "dry_run" ? "to create" : "created"}${out.checks ? `; ${out.checks.opened} flag(s) raised by the checks` : ""}.\n`);
 }
 
 function refused(message: string, errors: Output["errors"], extra: Partial<Output> = {}): Output {
@@ -136,6 +138,6 @@ export const importCommand: CliCommand = async (argv, io) => {
     return r.error.code === "internal" ? 1 : 2;
   }
   const c = r.data;
-  print(io, { status: c.status, imported: c.imported, excluded: c.excluded, errors: c.errors, warnings: c.warnings, records: c.records, unmapped: c.unmapped, import_run_id: c.importRunId, created_sources: c.createdSources }, json);
+  print(io, { status: c.status, imported: c.imported, excluded: c.excluded, errors: c.errors, warnings: c.warnings, records: c.records, unmapped: c.unmapped, import_run_id: c.importRunId, created_sources: c.createdSources, checks: c.checks ? { opened: c.checks.opened, open_by_code: c.checks.openByCode } : null }, json);
   return 0;
 };
