@@ -22,17 +22,15 @@ export function FieldError({ id, messages }: { id: string; messages?: readonly s
 }
 
 export function FieldLabel({ htmlFor, children, optional }: { htmlFor: string; children: ReactNode; optional?: boolean }) {
+  // "(optional)" sits beside the label, not in it, so the field's name stays "Page", not "Page (optional)";
+  // required fields say so through their required attribute.
   return (
-    <label className="field__label" htmlFor={htmlFor}>
-      {children}
-      {/* "optional" is shown, not announced: required fields carry aria-required/required instead */}
-      {optional ? (
-        <span className="field__optional" aria-hidden="true">
-          {" "}
-          (optional)
-        </span>
-      ) : null}
-    </label>
+    <span className="field__label-row">
+      <label className="field__label" htmlFor={htmlFor}>
+        {children}
+      </label>
+      {optional ? <span className="field__optional">(optional)</span> : null}
+    </span>
   );
 }
 
