@@ -394,7 +394,7 @@ export function RecordForm({ mode, initial, sources, recordId, version, action, 
 
         <section className="panel form-section" aria-labelledby="sec-outcome">
           <h2 id="sec-outcome" className="panel__title">
-            Outcome
+            Outcome and density
           </h2>
           <div className="form-grid">
             <Select className="col-6" label="Outcome" name="outcome" options={OUTCOME_OPTIONS} value={values.outcome} onChange={(e) => update({ outcome: e.target.value }, ["outcome"])} error={errorsFor("outcome")} hint="Unknown when the source does not say." />
