@@ -46,7 +46,7 @@ export async function startApp(options: { seed?: boolean } = {}): Promise<App> {
   const bin = path.join(ROOT, "bin/meltledger.mjs");
   execFileSync(process.execPath, [bin, "db", "migrate"], { env, stdio: "pipe" });
   if (options.seed) execFileSync(process.execPath, [bin, "db", "seed"], { env, stdio: "pipe" });
-  if (!existsSync(path.join(ROOT, ".next", "BUILD_ID"))) execFileSync("npx", ["next", "build"], { cwd: ROOT, env, stdio: "inherit" });
+  if (!existsSync(path.join(ROOT, process.env.MELTLEDGER_DIST_DIR || ".next", "BUILD_ID"))) execFileSync("npx", ["next", "build"], { cwd: ROOT, env, stdio: "inherit" });
   // MELTLEDGER_E2E_PORT pins the port (e.g. to a range a shared machine sets aside)
   const port = Number(process.env.MELTLEDGER_E2E_PORT) || (await freePort());
   const server: ChildProcess = spawn(process.execPath, [path.join(ROOT, "node_modules/next/dist/bin/next"), "start", "-p", String(port), "-H", "127.0.0.1"], {
