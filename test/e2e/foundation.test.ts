@@ -30,8 +30,9 @@ describe("foundation, end to end", () => {
     await page.getByLabel("Kind").selectOption("journal_article");
     await page.getByLabel("Title").fill("Browser-entered study of an invented steel");
     await page.getByLabel("Year").fill("2024");
-    await page.getByLabel("DOI").fill("https://doi.org/10.5555/E2E.2024.001");
-    await page.locator('button[type="submit"]').click();
+    const form = page.locator("form", { has: page.locator('input[name="title"]') });
+    await form.locator('input[name="doi"]').fill("https://doi.org/10.5555/E2E.2024.001");
+    await form.locator('button[type="submit"]').click();
     await page.waitForURL(/\/sources\/\d+$/);
     sourceId = Number(new URL(page.url()).pathname.split("/").pop());
     expect(sourceId).toBeGreaterThan(0);
@@ -66,7 +67,10 @@ describe("foundation, end to end", () => {
     await expect(page.locator(".derived-panel").innerText()).resolves.toMatch(/83\.3/);
     await page.getByLabel("Outcome", { exact: true }).selectOption("dense");
     await page.locator('button[type="submit"]').click();
-    await page.waitForURL(/\/records\/\d+$/);
+    await page.waitForURL(/\/records\/\d+$/).catch(async (error) => {
+      await page.screenshot({ path: "test-results/foundation-record-form.png", fullPage: true });
+      throw error;
+    });
     recordId = Number(new URL(page.url()).pathname.split("/").pop());
     expect(recordId).toBeGreaterThan(0);
     const text = await page.locator("main").innerText();
