@@ -73,37 +73,74 @@ function parseEntered(text: string): CheckRecord["entered"] {
 
 const NO_COMPONENTS: Components = Object.freeze([]);
 
+/**
+ * A loaded record. What was entered is parsed on first use only: most checks never need it, and
+ * parsing 100k JSON columns is a good part of a full run.
+ */
+class CheckInput implements CheckInputRow {
+  id: number;
+  sourceId: number;
+  alloyKey: string;
+  components: Components;
+  compositionBasis: string;
+  laserPowerW: number | null;
+  scanSpeedMmPerS: number | null;
+  hatchSpacingUm: number | null;
+  layerThicknessUm: number | null;
+  spotDiameterUm: number | null;
+  preheatC: number | null;
+  powderD10Um: number | null;
+  powderD50Um: number | null;
+  powderD90Um: number | null;
+  relativeDensityPct: number | null;
+  volumetricEnergyJMm3: number | null;
+  outcome: string;
+  machine: string | null;
+  atmosphere: string | null;
+  spotDefinition: string | null;
+  status: string;
+  version: number;
+  qualityScore: number | null;
+  enteredAllReported: boolean;
+  private enteredText: string;
+  private parsed: CheckRecord["entered"] | null = null;
+
+  constructor(r: RawRecord, material: { basis: string; components: Components } | undefined) {
+    this.id = r.id;
+    this.sourceId = r.sourceId;
+    this.alloyKey = r.alloyKey;
+    this.components = material?.components ?? NO_COMPONENTS;
+    this.compositionBasis = material?.basis ?? "wt";
+    this.laserPowerW = r.laserPowerW;
+    this.scanSpeedMmPerS = r.scanSpeedMmPerS;
+    this.hatchSpacingUm = r.hatchSpacingUm;
+    this.layerThicknessUm = r.layerThicknessUm;
+    this.spotDiameterUm = r.spotDiameterUm;
+    this.preheatC = r.preheatC;
+    this.powderD10Um = r.powderD10Um;
+    this.powderD50Um = r.powderD50Um;
+    this.powderD90Um = r.powderD90Um;
+    this.relativeDensityPct = r.relativeDensityPct;
+    this.volumetricEnergyJMm3 = r.volumetricEnergyJMm3;
+    this.outcome = r.outcome;
+    this.machine = r.machine;
+    this.atmosphere = r.atmosphere;
+    this.spotDefinition = r.spotDefinition;
+    this.status = r.status;
+    this.version = r.version;
+    this.qualityScore = r.qualityScore;
+    this.enteredText = r.enteredValues;
+    this.enteredAllReported = !r.enteredValues.includes('"assumed"') && !r.enteredValues.includes('"derived"');
+  }
+
+  get entered(): CheckRecord["entered"] {
+    return (this.parsed ??= parseEntered(this.enteredText));
+  }
+}
+
 function toInputs(db: SqliteDatabase, rows: RawRecord[]): CheckInputRow[] {
   const materials = materialComponents(db, rows.map((r) => r.materialId));
-  return rows.map((r) => {
-    const m = materials.get(r.materialId);
-    return {
-      id: r.id,
-      sourceId: r.sourceId,
-      alloyKey: r.alloyKey,
-      components: m?.components ?? NO_COMPONENTS,
-      compositionBasis: m?.basis ?? "wt",
-      laserPowerW: r.laserPowerW,
-      scanSpeedMmPerS: r.scanSpeedMmPerS,
-      hatchSpacingUm: r.hatchSpacingUm,
-      layerThicknessUm: r.layerThicknessUm,
-      spotDiameterUm: r.spotDiameterUm,
-      preheatC: r.preheatC,
-      powderD10Um: r.powderD10Um,
-      powderD50Um: r.powderD50Um,
-      powderD90Um: r.powderD90Um,
-      relativeDensityPct: r.relativeDensityPct,
-      volumetricEnergyJMm3: r.volumetricEnergyJMm3,
-      outcome: r.outcome,
-      machine: r.machine,
-      atmosphere: r.atmosphere,
-      spotDefinition: r.spotDefinition,
-      entered: parseEntered(r.enteredValues),
-      status: r.status,
-      version: r.version,
-      qualityScore: r.qualityScore,
-    };
-  });
+  return rows.map((r) => new CheckInput(r, materials.get(r.materialId)));
 }
 
 /** Every active record, or the active records of the given alloys. */

@@ -91,6 +91,28 @@ export function flagsOfRecords(db: SqliteDatabase, ids: readonly number[] | "all
   return out;
 }
 
+/** The columns a check run compares (not the details: a finding's wording and settings version decide a refresh). */
+export interface FlagForRun {
+  id: number;
+  recordId: number | null;
+  ruleCode: string;
+  severity: string;
+  message: string;
+  fingerprint: string;
+  state: FlagState;
+  resolution: string | null;
+  settingsVersion: number | null;
+}
+
+/** Flags of the given records (or every flag with a record) for a check run. */
+export function flagsForRun(db: SqliteDatabase, ids: readonly number[] | "all"): FlagForRun[] {
+  const cols = `id, recordId, ruleCode, severity, message, fingerprint, state, resolution, settingsVersion`;
+  if (ids === "all") return db.prepare(`SELECT ${cols} FROM Flag WHERE recordId IS NOT NULL`).all() as FlagForRun[];
+  const out: FlagForRun[] = [];
+  for (const part of chunks(ids)) out.push(...(db.prepare(`SELECT ${cols} FROM Flag WHERE recordId IN (${part.map(() => "?").join(",")})`).all(...part) as FlagForRun[]));
+  return out;
+}
+
 /** Records whose open flags of the given codes point at one of `ids` as the related record. */
 export function recordsWithOpenFlagsRelatedTo(db: SqliteDatabase, ids: readonly number[], codes: readonly string[]): number[] {
   const out = new Set<number>();

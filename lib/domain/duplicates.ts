@@ -195,8 +195,9 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
   const speedRel = t.speedRelPct / 100;
   const wP = Math.max(Math.log1p(powerRel), MIN_CELL);
   const wV = Math.max(Math.log1p(speedRel), MIN_CELL);
-  const pCell = new Float64Array(records.length);
-  const vCell = new Float64Array(records.length);
+  // Cell numbers stay small integers (kept in Int32Arrays so map keys are never boxed numbers).
+  const pCell = new Int32Array(records.length);
+  const vCell = new Int32Array(records.length);
   // Records without P or v can only be exact duplicates, found by key.
   const byKey = new Map<string, number[]>();
   // Per alloy: the cell range seen, then a map from a small integer cell number to record indices.
@@ -210,7 +211,6 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
       const list = byKey.get(k);
       if (list) list.push(i);
       else byKey.set(k, [i]);
-      pCell[i] = Number.NaN;
       continue;
     }
     const pc = Math.floor(Math.log(p) / wP);

@@ -209,6 +209,26 @@ function buildTree(pts: readonly Point[], dims: readonly number[], records: read
  * // [{ id: 17, outcome: "keyhole", distance: 0.31 }, ...]
  */
 export function nearestNeighbours(records: readonly CheckRecord[], params: NeighbourParams, targets?: ReadonlySet<number>): Map<number, Neighbour[]> {
+  const out = new Map<number, Neighbour[]>();
+  forEachNeighbourhood(records, params, targets, (i, found, indices, distances) => {
+    const list: Neighbour[] = new Array(found);
+    for (let k = 0; k < found; k++) list[k] = { id: records[indices[k]!]!.id, outcome: records[indices[k]!]!.outcome, distance: distances[k]! };
+    out.set(records[i]!.id, list);
+  });
+  return out;
+}
+
+/**
+ * The search behind nearestNeighbours without building result objects: calls `visit` with the
+ * record's index and its `found` neighbours (record indices and distances, nearest first, in
+ * buffers reused between calls).
+ */
+export function forEachNeighbourhood(
+  records: readonly CheckRecord[],
+  params: NeighbourParams,
+  targets: ReadonlySet<number> | undefined,
+  visit: (index: number, found: number, indices: Int32Array, distances: Float64Array) => void,
+): void {
   const { radius, count } = params;
   if (!(radius > 0) || count < 1) throw new RangeError(`nearestNeighbours: radius and count must be positive, got ${radius} and ${count}`);
   const points: (Point | null)[] = records.map((r, i) => (isJudgedOutcome(r.outcome) ? toPoint(r, i, params.scale) : null));
@@ -230,7 +250,6 @@ export function nearestNeighbours(records: readonly CheckRecord[], params: Neigh
     trees.set(alloy, built);
   }
 
-  const out = new Map<number, Neighbour[]>();
   const bestD = new Float64Array(count);
   const bestId = new Float64Array(count);
   const bestIndex = new Int32Array(count);
@@ -303,9 +322,6 @@ export function nearestNeighbours(records: readonly CheckRecord[], params: Neigh
         stack[top++] = near;
       }
     }
-    const list: Neighbour[] = new Array(found);
-    for (let k = 0; k < found; k++) list[k] = { id: bestId[k]!, outcome: records[bestIndex[k]!]!.outcome, distance: bestD[k]! };
-    out.set(r.id, list);
+    visit(i, found, bestIndex, bestD);
   }
-  return out;
 }

@@ -119,6 +119,8 @@ interface CompletenessSource {
   relativeDensityPct: number | null;
   outcome: string;
   entered: Partial<Record<string, { provenance?: string }>>;
+  /** When true every entered value is reported and `entered` is not read. */
+  enteredAllReported?: boolean;
 }
 
 function provenanceOf(text: string | undefined): FieldProvenance | undefined {
@@ -134,7 +136,8 @@ function provenanceOf(text: string | undefined): FieldProvenance | undefined {
  * completenessInputOf(record).fields.spotDiameter; // { present: true, provenance: "assumed" }
  */
 export function completenessInputOf(r: CompletenessSource): CompletenessInput {
-  const f = (value: number | null, field: string) => ({ present: value !== null, provenance: provenanceOf(r.entered[field]?.provenance) });
+  const entered = r.enteredAllReported ? {} : r.entered;
+  const f = (value: number | null, field: string) => ({ present: value !== null, provenance: provenanceOf(entered[field]?.provenance) });
   return {
     fields: {
       laserPower: f(r.laserPowerW, "laserPower"),
@@ -143,7 +146,7 @@ export function completenessInputOf(r: CompletenessSource): CompletenessInput {
       layerThickness: f(r.layerThicknessUm, "layerThickness"),
       spotDiameter: f(r.spotDiameterUm, "spotDiameter"),
       powderD50: f(r.powderD50Um, "powderD50"),
-      result: { present: (r.outcome !== "unknown" && r.outcome !== "") || r.relativeDensityPct !== null, provenance: provenanceOf(r.entered.relativeDensity?.provenance) },
+      result: { present: (r.outcome !== "unknown" && r.outcome !== "") || r.relativeDensityPct !== null, provenance: provenanceOf(entered.relativeDensity?.provenance) },
     },
   };
 }

@@ -15,7 +15,7 @@ import { scoreSource } from "../domain/source-quality";
 import { appendAuditRaw } from "../db/audit-raw";
 import { loadCheckRecords, loadPropertyOverrides, loadSourceAttributes, recordKeys, reopenAcceptedRecords, writeQualityScores, type CheckInputRow } from "../db/check-inputs";
 import { sqlite, type SqliteDatabase } from "../db/connection";
-import { flagFingerprint, flagsOfRecords, insertFlag, recordsWithOpenFlagsRelatedTo, refreshFlag, reopenFlag, resolveFlagAuto, type FlagRow, type FlagWrite } from "../db/flags";
+import { flagFingerprint, flagsForRun, insertFlag, recordsWithOpenFlagsRelatedTo, refreshFlag, reopenFlag, resolveFlagAuto, type FlagForRun, type FlagWrite } from "../db/flags";
 import { distinctPairKeys, pairKey } from "../db/pairs";
 import { z } from "zod";
 import { requireRole, type Actor } from "./actor";
@@ -86,13 +86,18 @@ export function runChecksSync(scope: "all" | readonly number[], options: RunChec
       }
       for (const id of recordsWithOpenFlagsRelatedTo(db, fullIds, DUPLICATE_CODES)) if (!targets.has(id)) dupOnly.add(id);
     }
+    const none: Finding[] = [];
     const wanted = new Map<number, Finding[]>();
-    for (const id of fullIds) wanted.set(id, [...(result.findings.get(id) ?? []), ...(result.duplicateFindings.get(id) ?? [])]);
-    for (const id of dupOnly) wanted.set(id, [...(result.duplicateFindings.get(id) ?? [])]);
+    for (const id of fullIds) {
+      const own = result.findings.get(id) ?? none;
+      const dups = result.duplicateFindings.get(id);
+      wanted.set(id, dups ? [...own, ...dups] : own);
+    }
+    for (const id of dupOnly) wanted.set(id, result.duplicateFindings.get(id) ?? none);
 
-    const existing = new Map<string, FlagRow>();
-    const existingOfRecord = new Map<number, FlagRow[]>();
-    for (const f of flagsOfRecords(db, scope === "all" ? "all" : [...wanted.keys()])) {
+    const existing = new Map<string, FlagForRun>();
+    const existingOfRecord = new Map<number, FlagForRun[]>();
+    for (const f of flagsForRun(db, scope === "all" ? "all" : [...wanted.keys()])) {
       existing.set(f.fingerprint, f);
       if (f.recordId === null) continue;
       const list = existingOfRecord.get(f.recordId);
@@ -103,29 +108,33 @@ export function runChecksSync(scope: "all" | readonly number[], options: RunChec
     const summary: CheckRunSummary = { settingsVersion: settings.version, records: fullIds.length, opened: 0, reopened: 0, refreshed: 0, stale: 0, openByCode: {}, qualityUpdated: 0, backToReview: [], ms: 0 };
     const newErrors = new Set<number>();
     const dupCodes = new Set(DUPLICATE_CODES);
+    const seen = new Set<string>();
     for (const [recordId, findings] of wanted) {
+      const previous = existingOfRecord.get(recordId);
+      if (!findings.length && !previous) continue;
       const record = byId.get(recordId);
-      const seen = new Set<string>();
+      seen.clear();
       for (const f of findings) {
         const fingerprint = flagFingerprint(f.code, recordId, f.relatedRecordId);
         if (seen.has(fingerprint)) continue;
         seen.add(fingerprint);
-        const write: FlagWrite = {
+        // Details are serialized only when a flag is written: an unchanged finding costs nothing.
+        const write = (): FlagWrite => ({
           recordId, relatedRecordId: f.relatedRecordId ?? null, sourceId: record?.sourceId ?? null, ruleCode: f.code, severity: f.severity,
           message: f.message, details: JSON.stringify(f.details), fingerprint, settingsVersion: settings.version,
-        };
+        });
         const old = existing.get(fingerprint);
         if (!old) {
-          insertFlag(db, write, at);
+          insertFlag(db, write(), at);
           summary.opened++;
           if (f.severity === "error") newErrors.add(recordId);
         } else if (old.state === "open") {
-          if (old.message !== write.message || old.severity !== write.severity || JSON.stringify(old.details) !== write.details) {
-            refreshFlag(db, old.id, write);
+          if (old.message !== f.message || old.severity !== f.severity || old.settingsVersion !== settings.version) {
+            refreshFlag(db, old.id, write());
             summary.refreshed++;
           }
         } else if (old.state === "resolved" && old.resolution !== null && REOPENABLE.has(old.resolution)) {
-          reopenFlag(db, old.id, write);
+          reopenFlag(db, old.id, write());
           summary.reopened++;
           if (f.severity === "error") newErrors.add(recordId);
         } else continue; // waived or decided by a reviewer: stays as decided

@@ -19,6 +19,7 @@ function assumedInfo(info: FieldInfo): RuleInfo {
 }
 
 function assumedFinding(r: CheckRecord, info: FieldInfo): Finding | null {
+  if (r.enteredAllReported) return null;
   const entered = r.entered[info.field];
   if (entered?.provenance !== "assumed") return null;
   const value = canonicalValue(r, info);

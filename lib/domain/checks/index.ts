@@ -5,9 +5,9 @@
  * finding, the source it rests on and the setting keys it reads. `RULE_CATALOGUE` lists them all
  * for the rules page; `checkRecords` runs them over a set of records.
  */
-import type { CheckSettings } from "../check-settings";
+import { settingOf, type CheckSettings } from "../check-settings";
 import { findDuplicatePairs, pairsForReview, tolerancesFrom, type DuplicatePair } from "../duplicates";
-import { nearestNeighbours, neighbourParamsFrom } from "../neighbours";
+import { forEachNeighbourhood, neighbourParamsFrom } from "../neighbours";
 import { ASSUMED_RULES } from "./assumed";
 import { DUPLICATE_RULE_INFO, duplicateFinding, NEIGHBOUR_RULE_INFO, neighbourFinding } from "./collection";
 import { COMPOSITION_RULES } from "./composition";
@@ -92,11 +92,18 @@ export function checkRecords(records: readonly CheckRecord[], settings: CheckSet
     if (targets && !targets.has(r.id)) continue;
     findings.set(r.id, checkRecord(r, settings, options.physics ? options.physics(r) : null));
   }
-  const neighbours = nearestNeighbours(records, neighbourParamsFrom(settings), targets);
-  for (const [id, list] of neighbours) {
-    const f = neighbourFinding(byId(records, id), list, settings);
-    if (f) findings.get(id)?.push(f);
-  }
+  const minCount = settingOf(settings, "neighbours.minCount");
+  const share = settingOf(settings, "neighbours.disagreeFraction");
+  forEachNeighbourhood(records, neighbourParamsFrom(settings), targets, (i, found, indices, distances) => {
+    if (found < minCount || found === 0) return;
+    const record = records[i]!;
+    let disagreeing = 0;
+    for (let k = 0; k < found; k++) if (records[indices[k]!]!.outcome !== record.outcome) disagreeing++;
+    if (disagreeing / found + 1e-12 < share) return; // the common case: no objects built
+    const list = Array.from({ length: found }, (_, k) => ({ id: records[indices[k]!]!.id, outcome: records[indices[k]!]!.outcome, distance: distances[k]! }));
+    const f = neighbourFinding(record, list, settings);
+    if (f) findings.get(record.id)?.push(f);
+  });
   const pairs = findDuplicatePairs(records, tolerancesFrom(settings), { isDistinct: options.isDistinct });
   const duplicateFindings = new Map<number, Finding[]>();
   for (const p of pairsForReview(pairs)) {

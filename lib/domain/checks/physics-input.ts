@@ -7,7 +7,10 @@
 import { type PropertyOverrides, resolveAlloyProperties } from "../alloy-properties";
 import { settingOf, type CheckSettings } from "../check-settings";
 import type { Composition } from "../composition";
-import { analyzeMeltPool, materialFromProperties, type MeltPoolMaterial } from "../meltpool-analysis";
+import { evaluateCriteria } from "../criteria";
+import { eagarTsaiMeltPool } from "../meltpool";
+import { materialFromProperties, type MeltPoolMaterial } from "../meltpool-analysis";
+import { normalizedEnthalpy } from "../normalized-enthalpy";
 import { isJudgedOutcome } from "../neighbours";
 import type { CheckRecord } from "./types";
 import type { PhysicsAssessment } from "./physics";
@@ -16,6 +19,8 @@ import type { PhysicsAssessment } from "./physics";
 const ROOM_TEMPERATURE_K = 298.15;
 /** 0 °C = 273.15 K exactly (SI Brochure, 9th edition, section 2.3.1). */
 const KELVIN_AT_ZERO_CELSIUS = 273.15;
+
+const NO_NOTES: readonly string[] = Object.freeze([]);
 
 const JUDGED = new Set(["dense", "keyhole", "lack_of_fusion", "balling"]);
 
@@ -69,24 +74,34 @@ export function physicsProvider(settings: CheckSettings, overrides: ReadonlyMap<
     const ambientTemperatureK = r.preheatC !== null ? r.preheatC + KELVIN_AT_ZERO_CELSIUS : ROOM_TEMPERATURE_K;
     if (!(ambientTemperatureK >= 0) || ambientTemperatureK >= material.meltingTemperatureK) return null;
     try {
-      const a = analyzeMeltPool(
-        { laserPowerW: p!, scanSpeedMmPerS: v!, spotDiameterUm: d!, hatchSpacingUm: r.hatchSpacingUm, layerThicknessUm: r.layerThicknessUm, ambientTemperatureK, material },
-        { criteria: { thresholds } },
+      // The steps of analyzeMeltPool that the criteria need (no regime or energy summary).
+      const m = material;
+      const pool = eagarTsaiMeltPool({
+        laserPowerW: p!, absorptivity: m.absorptivity, scanSpeedMmPerS: v!, spotDiameterUm: d!, densityKgPerM3: m.densityKgPerM3,
+        specificHeatJPerKgK: m.specificHeatJPerKgK, thermalConductivityWPerMK: m.thermalConductivityWPerMK, meltingTemperatureK: m.meltingTemperatureK, ambientTemperatureK,
+      });
+      const enthalpy = normalizedEnthalpy({
+        laserPowerW: p!, absorptivity: m.absorptivity, scanSpeedMmPerS: v!, spotDiameterUm: d!, densityKgPerM3: m.densityKgPerM3,
+        specificHeatJPerKgK: m.specificHeatJPerKgK, thermalConductivityWPerMK: m.thermalConductivityWPerMK, meltingTemperatureK: m.meltingTemperatureK,
+      });
+      const criteria = evaluateCriteria(
+        { widthUm: pool.widthUm, depthUm: pool.depthUm, lengthUm: pool.lengthUm, melted: pool.melted, hatchSpacingUm: r.hatchSpacingUm, layerThicknessUm: r.layerThicknessUm, normalizedEnthalpy: enthalpy, meltingTemperatureK: m.meltingTemperatureK, boilingTemperatureK: m.boilingTemperatureK },
+        { thresholds },
       );
       return {
-        model: `Eagar–Tsai (${a.pool.method === "surface" ? "precomputed surface" : "direct integration"}), properties ${basis}`,
-        meltPool: { widthUm: a.pool.widthUm, depthUm: a.pool.depthUm, lengthUm: a.pool.lengthUm, melted: a.pool.melted },
-        criteria: a.criteria.map((c) => ({ mode: c.mechanism, name: c.rule, value: c.value, threshold: c.threshold, comparison: c.comparison, fired: c.fired, margin: c.margin })),
+        model: `Eagar–Tsai (${pool.method === "surface" ? "precomputed surface" : "direct integration"}), properties ${basis}`,
+        meltPool: { widthUm: pool.widthUm, depthUm: pool.depthUm, lengthUm: pool.lengthUm, melted: pool.melted },
+        criteria: criteria.map((c) => ({ mode: c.mechanism, name: c.rule, value: c.value, threshold: c.threshold, comparison: c.comparison, fired: c.fired, margin: c.margin })),
         inputs: {
-          absorptivity: material.absorptivity,
-          densityKgPerM3: material.densityKgPerM3,
-          specificHeatJPerKgK: material.specificHeatJPerKgK,
-          thermalConductivityWPerMK: material.thermalConductivityWPerMK,
-          meltingTemperatureK: material.meltingTemperatureK,
+          absorptivity: m.absorptivity,
+          densityKgPerM3: m.densityKgPerM3,
+          specificHeatJPerKgK: m.specificHeatJPerKgK,
+          thermalConductivityWPerMK: m.thermalConductivityWPerMK,
+          meltingTemperatureK: m.meltingTemperatureK,
           ambientTemperatureK,
-          normalizedEnthalpy: Number(a.normalizedEnthalpy.toPrecision(5)),
+          normalizedEnthalpy: Number(enthalpy.toPrecision(5)),
         },
-        notes: [...notes, ...a.notes],
+        notes: notes.length || pool.notes.length ? [...notes, ...pool.notes] : NO_NOTES,
       };
     } catch (error) {
       if (error instanceof RangeError) return null;

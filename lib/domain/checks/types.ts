@@ -53,6 +53,11 @@ export interface CheckRecord {
   atmosphere: string | null;
   spotDefinition: string | null;
   entered: Partial<Record<CheckedField, EnteredText>>;
+  /**
+   * Set by loaders that know every entered value is "reported" (no assumed or derived one), so
+   * rules that only look for assumed values can skip reading `entered`.
+   */
+  enteredAllReported?: boolean;
 }
 
 /** Extra structured facts of a finding, shown in review and printed by the CLI. */
