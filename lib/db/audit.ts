@@ -1,5 +1,6 @@
 import type { Prisma } from "../generated/prisma/client";
 import { prismaReady } from "./client";
+import { sqlite } from "./connection";
 
 export interface AuditInput {
   actorId: number | null;
@@ -65,4 +66,22 @@ export async function listRecentAudit(limit: number): Promise<AuditEventRow[]> {
   const db = await prismaReady();
   const rows = await db.auditEvent.findMany({ orderBy: { id: "desc" }, take: limit });
   return rows.map((r) => ({ ...r, before: parse(r.before), after: parse(r.after) }));
+}
+
+/**
+ * Batch events (imports, the demo seed) whose id range covers the record. A batch writes its
+ * records in one transaction, so its ids run from firstId to lastId with no others between; the
+ * event's entity id is "first-last". Batches are few, so reading them all stays cheap.
+ */
+export function listBatchEventsCovering(recordId: number): AuditEventRow[] {
+  const rows = sqlite()
+    .prepare(`SELECT id, actorName, action, entityType, entityId, before, after, reason, at FROM AuditEvent WHERE entityType = 'record_batch' ORDER BY id`)
+    .all() as (Omit<AuditEventRow, "before" | "after" | "at"> & { before: string | null; after: string | null; at: string })[];
+  const out: AuditEventRow[] = [];
+  for (const r of rows) {
+    const m = /^(\d+)-(\d+)$/.exec(r.entityId);
+    if (!m || recordId < Number(m[1]) || recordId > Number(m[2])) continue;
+    out.push({ ...r, before: parse(r.before), after: parse(r.after), at: new Date(r.at) });
+  }
+  return out;
 }

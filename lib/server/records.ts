@@ -1,5 +1,5 @@
 import { prismaReady } from "../db/client";
-import { appendAudit, listAuditFor, type AuditEventRow } from "../db/audit";
+import { appendAudit, listAuditFor, listBatchEventsCovering, type AuditEventRow } from "../db/audit";
 import { findOrCreateMaterial } from "../db/materials";
 import { getRecordDetail, getRecordTx, insertRecord, listRecordsPage, updateRecordIfVersion, type RecordDetail, type RecordRow, type RecordTableRow } from "../db/records";
 import { getSourceTx } from "../db/sources";
@@ -117,7 +117,9 @@ export async function getRecordPage(id: number): Promise<Result<RecordPage>> {
     if (!Number.isInteger(id) || id <= 0) return fail("not_found", "No such record.");
     const record = await getRecordDetail(id);
     if (!record) return fail("not_found", `Record ${id} does not exist.`);
-    return ok({ record, history: await listAuditFor("record", id) });
+    // The record's own events and the batch (import, seed) that created it, oldest first.
+    const history = [...listBatchEventsCovering(id), ...(await listAuditFor("record", id))].sort((a, b) => a.at.getTime() - b.at.getTime() || a.id - b.id);
+    return ok({ record, history });
   });
 }
 

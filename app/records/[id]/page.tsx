@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { energyDensities } from "@/lib/domain/energy-density";
 import { CANONICAL_UNIT } from "@/lib/domain/units";
 import { RECORD_QUANTITY_FIELD_NAMES, RECORD_QUANTITY_FIELDS, canonicalKeyOf } from "@/lib/schemas/record";
-import { getRecordWithHistory } from "@/lib/server/record-history";
+import { getRecordPage } from "@/lib/server/records";
 import { Alert } from "../../_components/alert";
 import { AuditHistory } from "../../_components/audit-history";
 import { fieldLabel } from "../../_components/audit-diff";
@@ -32,7 +32,7 @@ const PROVENANCE: Record<string, string> = { reported: "Reported", derived: "Der
 
 export default async function RecordPage({ params }: Props) {
   const { id } = await params;
-  const result = await getRecordWithHistory(Number(id));
+  const result = await getRecordPage(Number(id));
   if (!result.ok) {
     if (result.error.code === "not_found") notFound();
     return <LoadError error={result.error} what={`record ${id}`} />;
