@@ -123,6 +123,8 @@ export async function getRecordPage(id: number): Promise<Result<RecordPage>> {
   });
 }
 
+export type { RecordTableRow };
+
 export interface RecordsPage {
   rows: RecordTableRow[];
   total: number;

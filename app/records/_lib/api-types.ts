@@ -1,24 +1,7 @@
-/** The JSON the records API sends, as the browser receives it (dates are ISO strings). */
-export interface RecordsApiRow {
-  id: number;
-  sourceId: number;
-  sourceLabel: string;
-  alloyKey: string;
-  laserPowerW: number | null;
-  scanSpeedMmPerS: number | null;
-  hatchSpacingUm: number | null;
-  layerThicknessUm: number | null;
-  spotDiameterUm: number | null;
-  volumetricEnergyJMm3: number | null;
-  relativeDensityPct: number | null;
-  outcome: string;
-  status: string;
-  qualityScore: number | null;
-  machine: string | null;
-  locationPage: number | null;
-  locationLabel: string | null;
-  updatedAt: string;
-}
+import type { RecordTableRow } from "@/lib/server/records";
+
+/** The JSON the records API sends: a table row as the browser receives it (already plain JSON). */
+export type RecordsApiRow = RecordTableRow;
 
 export interface RecordsApiPage {
   rows: RecordsApiRow[];
