@@ -1,6 +1,6 @@
 // `meltledger import` as a user runs it: a real process on a temporary database.
 import { execFile } from "node:child_process";
-import { mkdtempSync, writeFileSync } from "node:fs";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { promisify } from "node:util";
@@ -42,7 +42,10 @@ async function recordCount(): Promise<number> {
 beforeAll(async () => {
   await cli("db", "migrate");
 });
-afterAll(() => tmp.cleanup());
+afterAll(async () => {
+  await tmp.cleanup();
+  rmSync(work, { recursive: true, force: true });
+});
 
 describe("meltledger import", () => {
   test("the open dataset's workbook: every row, with its row number, sources from the DOI column", async () => {

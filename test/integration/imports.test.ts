@@ -1,7 +1,7 @@
 // Imports end to end against a temporary database: the open dataset's workbook, CSV and pasted
 // tables, all-or-nothing commits, cancellation, presets, and the bad inputs that must write nothing.
 import { execFileSync } from "node:child_process";
-import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import fc from "fast-check";
@@ -38,7 +38,10 @@ beforeAll(async () => {
   if (!s.ok) throw new Error(s.error.message);
   sourceId = s.data.id;
 });
-afterAll(() => tmp.cleanup());
+afterAll(async () => {
+  await tmp.cleanup();
+  rmSync(work, { recursive: true, force: true });
+});
 
 test("the importer's quantity fields are the record schema's", () => {
   expect(IMPORT_QUANTITY_FIELDS).toEqual(RECORD_QUANTITY_FIELDS);
