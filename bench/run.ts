@@ -7,6 +7,7 @@ const SUITES: Record<string, () => Promise<BenchSuite>> = {
   records: async () => (await import("./records.bench")).recordsBench,
   import: async () => (await import("./import.bench")).importBench,
   meltpool: async () => (await import("./meltpool.bench")).meltpoolBench,
+  checks: async () => (await import("./checks.bench")).checksBench,
 };
 
 function fmt(x: number): string {

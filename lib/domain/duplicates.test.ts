@@ -55,7 +55,7 @@ const recordArb = fc.record({
   laserPowerW: fc.oneof(fc.constantFrom(1, 2, 3, 18, 19, 20, 100, 101, 102, 103, 200, 202, 203, 400, 404), fc.constant(null)),
   scanSpeedMmPerS: often(800, 806, 808, 812, 1000),
   hatchSpacingUm: often(100, 101, 102, null),
-  layerThicknessUm: often(30, 31),
+  layerThicknessUm: fc.constantFrom(27, 28, 30, 31, null),
   spotDiameterUm: often(80, 82, 83),
   outcome: often("dense", "keyhole", "unknown"),
   relativeDensityPct: often(99.5, 99.45, 97, 90, null),

@@ -164,11 +164,14 @@ export interface FindDuplicatesOptions {
 }
 
 const MIN_CELL = 1e-6;
+/** Layer buckets 10 µm wide, edges at 7.5, 17.5, 27.5 µm…, so the common layers (20, 25, 30, 40 µm) sit well inside one. */
+const LAYER_BUCKET_UM = 10;
+const LAYER_OFFSET_UM = 2.5;
 
 /**
  * Every exact, near and label-conflict pair among the records, each once with a < b, sorted by
- * (b, a). Blocking: records with P and v are put in cells of an (alloy, ln P, ln v) grid whose cell
- * size is the relative tolerance; each record compares itself only with the records in the cells
+ * (b, a). Blocking: records with P and v are put in cells of an (alloy, layer bucket, ln P, ln v)
+ * grid whose (P, v) cell size is the relative tolerance; each record compares itself only with the records in the cells
  * its tolerance box covers. Records without P or v can only be exact duplicates (found by key).
  *
  * @example
@@ -200,8 +203,11 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
   const vCell = new Int32Array(records.length);
   // Records without P or v can only be exact duplicates, found by key.
   const byKey = new Map<string, number[]>();
-  // Per alloy: the cell range seen, then a map from a small integer cell number to record indices.
-  const alloys = new Map<string, { members: number[]; pMin: number; pMax: number; vMin: number; vMax: number }>();
+  // Blocks: alloy and a coarse layer-thickness bucket (layers come in few values, so this splits
+  // the work several ways); inside a block, a map from a small integer (P, v) cell number to records.
+  const layerBucket = (t: number) => Math.floor((t + LAYER_OFFSET_UM) / LAYER_BUCKET_UM);
+  const blockKey = (alloy: string, bucket: number | null) => `${alloy}|${bucket ?? "-"}`;
+  const blocks = new Map<string, { members: number[]; pMin: number; pMax: number; vMin: number; vMax: number; cells: Map<number, number[]> | null }>();
   for (let i = 0; i < records.length; i++) {
     const r = records[i]!;
     const p = r.laserPowerW;
@@ -217,8 +223,9 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
     const vc = Math.floor(Math.log(v) / wV);
     pCell[i] = pc;
     vCell[i] = vc;
-    const g = alloys.get(r.alloyKey);
-    if (!g) alloys.set(r.alloyKey, { members: [i], pMin: pc, pMax: pc, vMin: vc, vMax: vc });
+    const key = blockKey(r.alloyKey, r.layerThicknessUm === null ? null : layerBucket(r.layerThicknessUm));
+    const g = blocks.get(key);
+    if (!g) blocks.set(key, { members: [i], pMin: pc, pMax: pc, vMin: vc, vMax: vc, cells: null });
     else {
       g.members.push(i);
       if (pc < g.pMin) g.pMin = pc;
@@ -230,25 +237,35 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
   for (const list of byKey.values()) {
     for (let x = 0; x < list.length; x++) for (let y = x + 1; y < list.length; y++) push(list[x]!, list[y]!, "exact");
   }
-
-  for (const g of alloys.values()) {
+  for (const g of blocks.values()) {
     const vSpan = g.vMax - g.vMin + 1;
-    const cells = new Map<number, number[]>();
+    g.cells = new Map();
     for (const i of g.members) {
       const c = (pCell[i]! - g.pMin) * vSpan + (vCell[i]! - g.vMin);
-      const list = cells.get(c);
+      const list = g.cells.get(c);
       if (list) list.push(i);
-      else cells.set(c, [i]);
+      else g.cells.set(c, [i]);
     }
-    for (const i of g.members) {
-      const r = records[i]!;
-      const p = r.laserPowerW!;
-      const v = r.scanSpeedMmPerS!;
-      // The box that holds every power within tolerance of p (either side's relative bound).
-      const pLo = Math.min(p - t.powerAbsW, p * (1 - powerRel)) - 1e-9;
-      const pHi = Math.max(p + t.powerAbsW, powerRel < 1 ? p / (1 - powerRel) : Number.POSITIVE_INFINITY) + 1e-9;
-      const vLo = v * (1 - speedRel) - 1e-9;
-      const vHi = (speedRel < 1 ? v / (1 - speedRel) : Number.POSITIVE_INFINITY) + 1e-9;
+  }
+
+  for (let i = 0; i < records.length; i++) {
+    const r = records[i]!;
+    const p = r.laserPowerW;
+    const v = r.scanSpeedMmPerS;
+    if (p === null || v === null || !(p > 0) || !(v > 0)) continue;
+    // The box that holds every power within tolerance of p (either side's relative bound).
+    const pLo = Math.min(p - t.powerAbsW, p * (1 - powerRel)) - 1e-9;
+    const pHi = Math.max(p + t.powerAbsW, powerRel < 1 ? p / (1 - powerRel) : Number.POSITIVE_INFINITY) + 1e-9;
+    const vLo = v * (1 - speedRel) - 1e-9;
+    const vHi = (speedRel < 1 ? v / (1 - speedRel) : Number.POSITIVE_INFINITY) + 1e-9;
+    const layer = r.layerThicknessUm;
+    const b0 = layer === null ? 0 : layerBucket(layer - t.layerAbsUm - 1e-9);
+    const b1 = layer === null ? 0 : layerBucket(layer + t.layerAbsUm + 1e-9);
+    for (let bucket = b0; bucket <= b1; bucket++) {
+      const g = blocks.get(blockKey(r.alloyKey, layer === null ? null : bucket));
+      if (!g) continue;
+      const cells = g.cells!;
+      const vSpan = g.vMax - g.vMin + 1;
       const p0 = Math.max(g.pMin, pLo > 0 ? Math.floor(Math.log(pLo) / wP) : g.pMin);
       const p1 = Math.min(g.pMax, Math.floor(Math.log(pHi) / wP));
       const v0 = Math.max(g.vMin, vLo > 0 ? Math.floor(Math.log(vLo) / wV) : g.vMin);
