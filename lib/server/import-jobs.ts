@@ -3,7 +3,10 @@ import { existsSync } from "node:fs";
 import { importRequestSchema } from "../schemas/import";
 import { type Actor } from "./actor";
 import { storedFilePath } from "./files";
-import { commitImport, parseMappingJson, previewImport, type ImportAnalysis, type ImportCommit, type ImportOptions, type ImportProgress, type TableInput } from "./imports";
+import type { ImportRunRow } from "../db/imports";
+import { getNewRecordForm } from "./record-editor";
+import type { SourceOption } from "./records-facets";
+import { commitImport, listRecentImports, parseMappingJson, previewImport, type ImportAnalysis, type ImportCommit, type ImportOptions, type ImportProgress, type TableInput } from "./imports";
 import { fail, guard, invalid, ok, type Result } from "./result";
 
 /** Turns a validated request into the importer's input; a file is found by its hash in the store. */
@@ -98,4 +101,14 @@ export async function cancelImportJob(id: string): Promise<Result<ImportJobView>
   if (!job) return fail("not_found", "No such import.");
   job.controller.abort();
   return ok(view(job));
+}
+
+/** What the import page shows: the sources to choose from and the latest import runs. */
+export async function getImportPage(): Promise<Result<{ sources: SourceOption[]; recent: ImportRunRow[] }>> {
+  return guard(async () => {
+    const [form, recent] = await Promise.all([getNewRecordForm(), listRecentImports(10)]);
+    if (!form.ok) return form;
+    if (!recent.ok) return recent;
+    return ok({ sources: form.data.sources, recent: recent.data });
+  });
 }

@@ -7,11 +7,11 @@ import { openSqlite, sqlite, type SqliteDatabase } from "../db/connection";
 import { finishImportRunRaw, getMappingPreset, insertImportRunRaw, insertPlaceholderSourceRaw, listImportRuns, listMappingPresets, saveMappingPreset, sourceExistsRaw, sourceIdByUrlRaw, sourceIdsByDoiRaw, type ImportRunRow, type MappingPresetRow } from "../db/imports";
 import { resolveDatabaseLocation } from "../db/location";
 import { hasMappingErrors, IMPORT_FIELDS, resolveMapping, type ImportMapping, type MappingIssue, type ResolvedMapping } from "../domain/column-mapping";
-import { csvParseOptions, CSV_DELIMITERS, describeCsvError, sniffDelimiter, type CsvDelimiter } from "../domain/csv";
+import { csvParseOptions, describeCsvError, sniffDelimiter, type CsvDelimiter } from "../domain/csv";
 import { normalizeDoi, titleKey } from "../domain/doi";
 import { mapImportRow, type RowProblem } from "../domain/import-row";
 import { normalizeBox, type PdfBox } from "../domain/pdf-table";
-import { looksLikeHeader, PASTE_SPLITTERS, splitTableText, type PasteSplitter } from "../domain/table-text";
+import { looksLikeHeader, splitTableText, type PasteSplitter } from "../domain/table-text";
 import { requireRole, type Actor } from "./actor";
 import { checksAfterSave } from "./checks";
 import { prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
@@ -626,6 +626,3 @@ export async function getImportPreset(id: number): Promise<Result<MappingPresetR
 export async function listRecentImports(limit = 20): Promise<Result<ImportRunRow[]>> {
   return guard(async () => ok(await listImportRuns(limit)));
 }
-
-export const IMPORT_SPLITTERS = PASTE_SPLITTERS;
-export const IMPORT_DELIMITERS = CSV_DELIMITERS;
