@@ -13,6 +13,12 @@ Commands:
                                      import a CSV or XLSX table: every row or none (rows with errors are left out only with --exclude-errors)
   meltpool --power 200W --speed 800mm/s --spot 80um [--alloy 316L ...] [--json]
                                      melt-pool size and defect criteria for one parameter set
+  check [--all | --record ID,...] [--settings-version N] [--json]
+                                     run the checks in batch: flags kept in step, quality scores recomputed
+  flags list --json [--record ID] [--state open|resolved|waived] [--code PREFIX] [--severity S] [--source ID]
+                                     every matching flag as a JSON array (record_id, import_file, import_row, code, severity, message, details)
+  flags resolve ID --action waive|fix|reject --reason TEXT [--field F --value V --unit U]
+                                     act on one flag (fix takes the suggested fix unless a value is given)
 
 DATABASE_URL selects the database (default file:./data/meltledger.db).
 `;
@@ -23,6 +29,8 @@ const COMMANDS: Record<string, () => Promise<CliCommand>> = {
   sources: async () => (await import("./commands/sources")).sources,
   import: async () => (await import("./commands/import")).importCommand,
   meltpool: async () => (await import("./commands/meltpool")).meltpool,
+  check: async () => (await import("./commands/check")).check,
+  flags: async () => (await import("./commands/flags")).flags,
 };
 
 /** Dispatches a command line; returns the exit code (0 ok, 1 failure, 2 bad usage or input). */
