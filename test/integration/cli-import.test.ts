@@ -39,6 +39,15 @@ async function recordCount(): Promise<number> {
   }
 }
 
+async function storedFileCount(): Promise<number> {
+  const db = openSqlite(tmp.filePath, { readonly: true });
+  try {
+    return (db.prepare(`SELECT COUNT(*) AS n FROM StoredFile`).get() as { n: number }).n;
+  } finally {
+    db.close();
+  }
+}
+
 beforeAll(async () => {
   await cli("db", "migrate");
 });
@@ -58,6 +67,7 @@ describe("meltledger import", () => {
     const sources = JSON.parse((await cli("sources", "list", "--json")).stdout) as { doi: string | null }[];
     expect(sources.some((s) => s.doi === "10.1016/j.msea.2019.138455")).toBe(true);
     expect(sources.every((s) => s.doi === null || (s.doi === s.doi.toLowerCase() && s.doi.startsWith("10.")))).toBe(true);
+    expect(await storedFileCount()).toBe(1);
     const records = JSON.parse((await cli("records", "list", "--json", "--limit", "1")).stdout);
     expect(records[0]).toMatchObject({ hatch_spacing_um: 114, layer_thickness_um: 50, import_row: 1 });
   }, 120_000);
@@ -98,12 +108,14 @@ describe("meltledger import", () => {
     ["a unit that cannot apply", ["unit.csv", "Alloy,Power (mm),v (mm/s)\n316L,200,800\n"], /cannot apply to laser power/],
   ])("%s: exit 2, a message with row and field, nothing written", async (_label, [name, text], message) => {
     const before = await recordCount();
+    const storedBefore = await storedFileCount();
     const r = await cli("import", file(name!, text!), "--source-doi", "10.5555/cli.import", "--json");
     expect(r.code).toBe(2);
     const out = JSON.parse(r.stdout);
     expect(out.imported).toBe(0);
     expect(out.errors[0]).toMatchObject({ row: expect.any(Number), field: expect.any(String), message: expect.stringMatching(message) });
     expect(await recordCount()).toBe(before);
+    expect(await storedFileCount()).toBe(storedBefore);
   }, 60_000);
 
   test("bad usage exits 2 with the usage line", async () => {

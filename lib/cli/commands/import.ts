@@ -1,3 +1,4 @@
+import { createHash } from "node:crypto";
 import { closeSync, createReadStream, existsSync, openSync, readFileSync, readSync, statSync } from "node:fs";
 import path from "node:path";
 import { cliActor } from "../../server/actor";
@@ -120,15 +121,10 @@ export const importCommand: CliCommand = async (argv, io) => {
   }
 
   const actor = await cliActor();
-  let fileSha256: string | null = null;
-  if (v["dry-run"] !== true) {
-    const stored = await storeImportFile(createReadStream(file), kind, fileName, actor);
-    if (!stored.ok) {
-      print(io, refused(stored.error.message, [{ row: 0, field: "file", message: stored.error.message }]), json);
-      return stored.error.code === "internal" ? 1 : 2;
-    }
-    fileSha256 = stored.data.sha256;
-  }
+  // the import run names the file by its hash; the file itself is kept only once the import is written
+  const hash = createHash("sha256");
+  for await (const chunk of createReadStream(file)) hash.update(chunk as Buffer);
+  const fileSha256 = hash.digest("hex");
   const input: TableInput = kind === "xlsx" ? { kind, path: file, fileName, fileSha256, sheet: typeof v.sheet === "string" ? v.sheet : null } : { kind, path: file, fileName, fileSha256 };
   const r = await commitImport(input, { mapping, sourceId, sourceDoi: typeof v["source-doi"] === "string" ? v["source-doi"] : null, dryRun: v["dry-run"] === true, excludeErrors: v["exclude-errors"] === true }, actor);
   if (!r.ok) {
@@ -138,6 +134,10 @@ export const importCommand: CliCommand = async (argv, io) => {
     return r.error.code === "internal" ? 1 : 2;
   }
   const c = r.data;
+  if (c.status === "committed") {
+    const stored = await storeImportFile(createReadStream(file), kind, fileName, actor);
+    if (!stored.ok) io.stderr(`The records are imported, but the file could not be kept in the data folder: ${stored.error.message}\n`);
+  }
   print(io, { status: c.status, imported: c.imported, excluded: c.excluded, errors: c.errors, warnings: c.warnings, records: c.records, unmapped: c.unmapped, import_run_id: c.importRunId, created_sources: c.createdSources, checks: c.checks ? { opened: c.checks.opened, open_by_code: c.checks.openByCode } : null }, json);
   return 0;
 };
