@@ -9,6 +9,8 @@ const LINKS = [
   { href: "/records", label: "Records" },
   { href: "/sources", label: "Sources" },
   { href: "/imports", label: "Import" },
+  { href: "/review", label: "Review" },
+  { href: "/rules", label: "Rules" },
 ] as const;
 
 function isCurrent(pathname: string, href: string): boolean {

@@ -1,5 +1,6 @@
 import { completeCheckSettings, CHECK_SETTING_DEFS, defaultCheckSettings, type CheckSettings } from "../domain/check-settings";
 import type { SettingDef } from "../domain/setting-def";
+import { RULE_CATALOGUE, type RuleInfo } from "../domain/checks/index";
 import { appendAuditRaw } from "../db/audit-raw";
 import { sqlite, type SqliteDatabase } from "../db/connection";
 import { getSettingsVersion, insertSettingsVersion, latestSettingsVersion, listSettingsVersions } from "../db/settings";
@@ -42,6 +43,8 @@ export function checkSettingsVersionSync(id: number, db: SqliteDatabase = sqlite
 
 export interface CheckSettingsPage {
   current: SettingsVersionInfo;
+  /** Every rule of the catalogue, in page order. */
+  rules: readonly RuleInfo[];
   defs: readonly SettingDef[];
   versions: { version: number; createdAt: string; createdByName: string | null; changed: string[] }[];
 }
@@ -58,7 +61,7 @@ export async function getCheckSettings(): Promise<Result<CheckSettingsPage>> {
       const changed = CHECK_SETTING_DEFS.filter((d) => values[d.key] !== previous[d.key]).map((d) => `${d.key}: ${previous[d.key]} → ${values[d.key]}`);
       return { version: r.id, createdAt: r.createdAt, createdByName: r.createdByName, changed };
     });
-    return ok({ current, defs: CHECK_SETTING_DEFS, versions });
+    return ok({ current, rules: RULE_CATALOGUE, defs: CHECK_SETTING_DEFS, versions });
   });
 }
 

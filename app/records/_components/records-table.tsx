@@ -36,7 +36,7 @@ type ApiError = ApiErrorBody["error"];
 
 const ROW_HEIGHT = 36;
 const COLUMNS_STORAGE_KEY = "meltledger.records.columns.v1";
-const DEFAULT_HIDDEN: VisibilityState = { spotDiameterUm: false, location: false, machine: false, qualityScore: false, updatedAt: false };
+const DEFAULT_HIDDEN: VisibilityState = { spotDiameterUm: false, location: false, machine: false, updatedAt: false };
 const SORTABLE = new Set<string>(RECORD_SORT_KEYS);
 
 const RANGE_LABEL: Record<RangeParam, { label: string; unit: string }> = {

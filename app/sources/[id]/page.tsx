@@ -9,6 +9,7 @@ import { LoadError } from "../../_components/load-error";
 import { PageHeader } from "../../_components/page-header";
 import { SourceDocuments } from "../_components/source-documents";
 import { SourceForm } from "../_components/source-form";
+import { SourceQualityPanel } from "../_components/source-quality-panel";
 import { updateSourceAction } from "../actions";
 import { densityMethodLabel, kindLabel, outcomeEvidenceLabel, spotDefinitionLabel } from "../_lib/labels";
 
@@ -101,6 +102,7 @@ export default async function SourcePage({ params }: Props) {
             </div>
           </section>
           <SourceDocuments sourceId={s.id} sourceDoi={s.doi} />
+          <SourceQualityPanel sourceId={s.id} />
           <section className="panel" aria-labelledby="history">
             <div className="panel__title">
               <h2 id="history">History</h2>

@@ -36,10 +36,10 @@ export function canonicalValue(record: CheckRecord, info: FieldInfo): number | n
   return typeof v === "number" && Number.isFinite(v) ? v : null;
 }
 
-/** Number formatting for messages: up to 4 significant digits, thousands separated. @example fmt(1234.567); // "1,235" */
+/** Number formatting for messages: up to 5 significant digits, thousands separated. @example fmt(1234.567); // "1,234.6" */
 export function fmt(value: number): string {
   if (!Number.isFinite(value)) return String(value);
-  const text = String(Number(value.toPrecision(4)));
+  const text = String(Number(value.toPrecision(5)));
   if (text.includes("e")) return text;
   const [whole = "", fraction] = text.split(".");
   const grouped = whole.replace(/\B(?=(\d{3})+(?!\d))/g, ",");

@@ -69,6 +69,14 @@ describe("outcomeVersusPhysics", () => {
     expect(outcomeVersusPhysics(checkRecordOf(), assessment(1.2, 4, 1.5), { ...settings, "physics.margin.lackOfFusion": 0.1 })).not.toBeNull();
   });
 
+  test("a mechanism counts only when all its criteria agree", () => {
+    const a = assessment(0.6, 4, 1.5);
+    const oneIndicator = { ...a, criteria: [...a.criteria, judged("keyhole", "ΔH/h_s > threshold", 11, 5.6, ">=")] }; // 96 % beyond, but W/D says no
+    expect(outcomeVersusPhysics(checkRecordOf(), oneIndicator, settings)).toBeNull();
+    const both = { ...a, criteria: [...assessment(0.6, 2, 1.5).criteria, judged("keyhole", "ΔH/h_s > threshold", 11, 5.6, ">=")] };
+    expect(outcomeVersusPhysics(checkRecordOf(), both, settings)?.message).toMatch(/ΔH\/h_s = 11/);
+  });
+
   test("no assessment, no finding", () => {
     expect(outcomeVersusPhysics(checkRecordOf(), null, settings)).toBeNull();
   });

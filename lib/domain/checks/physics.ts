@@ -57,15 +57,22 @@ export function criterionMargin(c: CriterionValue): number | null {
   return c.fired ? MARGIN_CAP : null;
 }
 
-function strongest(criteria: readonly CriterionValue[], mode: DefectMode): { criterion: CriterionValue; margin: number } | null {
-  let best: { criterion: CriterionValue; margin: number } | null = null;
+/**
+ * The strongest criterion of a mechanism and whether all of its evaluable criteria agree (fire).
+ * A mechanism counts as strongly predicted only when its criteria agree and the strongest is past
+ * the margin: one indicator alone (the enthalpy rule, say) is not enough to contradict a label.
+ */
+function strongest(criteria: readonly CriterionValue[], mode: DefectMode): { criterion: CriterionValue; margin: number; agree: boolean } | null {
+  let best: { criterion: CriterionValue; margin: number; agree: boolean } | null = null;
+  let agree = true;
   for (const c of criteria) {
     if (c.mode !== mode) continue;
     const margin = criterionMargin(c);
     if (margin === null) continue;
-    if (!best || margin > best.margin) best = { criterion: c, margin };
+    if (!c.fired) agree = false;
+    if (!best || margin > best.margin) best = { criterion: c, margin, agree: true };
   }
-  return best;
+  return best ? { ...best, agree } : null;
 }
 
 export const PHYSICS_RULE_INFO: RuleInfo = {
@@ -73,7 +80,7 @@ export const PHYSICS_RULE_INFO: RuleInfo = {
   severity: "warning",
   title: "Outcome contradicts the melt-pool criteria",
   description:
-    "The recorded outcome disagrees with the melt-pool criteria by more than the margin: labelled dense where a defect is strongly predicted, labelled lack of fusion where full fusion is predicted, or labelled keyhole or balling where that criterion is clear and another defect is strongly predicted. Check the outcome and the four process values against the source; the criteria are indicators, so waive with a reason when the source's evidence is clear.",
+    "The recorded outcome disagrees with the melt-pool criteria by more than the margin: labelled dense where a defect is strongly predicted (every criterion of that mechanism fires, one of them beyond the margin), labelled lack of fusion where full fusion is predicted, or labelled keyhole or balling where that criterion is clear and another defect is strongly predicted. Check the outcome and the four process values against the source; the criteria are indicators, so waive with a reason when the source's evidence is clear.",
   source:
     "Eagar & Tsai, Welding Journal 62(12):346s–355s (1983) melt pool; criteria as listed by Sheikh et al., npj Comput. Mater. 10:252 (2024); Tang, Pistorius & Beuth, Addit. Manuf. 14:39–48 (2017) for overlap (from memory)",
   thresholdKeys: ["physics.margin.lackOfFusion", "physics.margin.keyhole", "physics.margin.balling", "physics.lackOfFusion.overlap", "physics.balling.lengthToWidth", "physics.keyhole.widthToDepth"],
@@ -107,7 +114,7 @@ export function outcomeVersusPhysics(record: CheckRecord, physics: PhysicsAssess
   // Strongly predicted: beyond the mechanism's margin; ordered by how far past it.
   const predicted = modes
     .map((m) => byMode.get(m))
-    .filter((x): x is { criterion: CriterionValue; margin: number } => x !== null && x !== undefined && x.margin >= margins[x.criterion.mode])
+    .filter((x): x is { criterion: CriterionValue; margin: number; agree: boolean } => x !== null && x !== undefined && x.agree && x.margin >= margins[x.criterion.mode])
     .sort((a, b) => b.margin - margins[b.criterion.mode] - (a.margin - margins[a.criterion.mode]));
   const outcome = record.outcome;
   let message: string | null = null;
