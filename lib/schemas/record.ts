@@ -74,6 +74,23 @@ export const recordFieldsSchema = z.object({
 
 type RecordFields = z.output<typeof recordFieldsSchema>;
 
+// Imports repeat the same few values ("30 µm", "argon") thousands of times, and every value is
+// read twice (validation, then normalization): a bounded memo of parse results keeps that cheap.
+// Results are plain immutable data, so sharing them is safe.
+const PARSE_MEMO_LIMIT = 20_000;
+const parseMemo = new Map<string, ReturnType<typeof parseQuantity>>();
+
+function parseEntered(value: string, unit: string, quantity: Quantity): ReturnType<typeof parseQuantity> {
+  const key = `${quantity}\u0000${value}\u0000${unit}`;
+  let parsed = parseMemo.get(key);
+  if (parsed === undefined) {
+    parsed = parseQuantity(unit ? `${value} ${unit}` : value, quantity);
+    if (parseMemo.size >= PARSE_MEMO_LIMIT) parseMemo.clear();
+    parseMemo.set(key, parsed);
+  }
+  return parsed;
+}
+
 /** Parses every quantity with its unit; a value that cannot be read or breaks a hard limit is a field error. */
 function checkQuantities(r: Pick<RecordFields, RecordQuantityField>, ctx: z.RefinementCtx): void {
   for (const field of RECORD_QUANTITY_FIELD_NAMES) {
@@ -85,7 +102,7 @@ function checkQuantities(r: Pick<RecordFields, RecordQuantityField>, ctx: z.Refi
       }
       continue;
     }
-    const parsed = parseQuantity(unit ? `${value} ${unit}` : value, quantity);
+    const parsed = parseEntered(value, unit, quantity);
     if (!parsed.ok) {
       ctx.addIssue({ code: "custom", path: [field, "value"], message: parsed.message });
       continue;
@@ -163,7 +180,7 @@ export function normalizeQuantities(r: Pick<RecordValues, RecordQuantityField | 
   for (const field of RECORD_QUANTITY_FIELD_NAMES) {
     const { value, unit } = r[field];
     if (value === "") continue;
-    const parsed = parseQuantity(unit ? `${value} ${unit}` : value, RECORD_QUANTITY_FIELDS[field]);
+    const parsed = parseEntered(value, unit, RECORD_QUANTITY_FIELDS[field]);
     if (!parsed.ok) continue;
     let canonical = parsed.value;
     if (field === "spotDiameter" && r.spotDefinition) canonical = toOneOverE2Diameter(canonical, r.spotDefinition as SpotDefinition);

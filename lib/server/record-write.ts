@@ -14,32 +14,17 @@ export type PreparedRecord = { ok: true; write: Omit<RecordWrite, "materialId">;
  */
 export function prepareRecord(values: RecordValues): PreparedRecord {
   const normalized = normalizeQuantities(values);
-  const resolved = resolveAlloy(values.alloy);
-  let material: MaterialSpec;
-  if (values.composition) {
-    const parsed = parseComposition(values.composition);
-    if (!parsed.ok) return { ok: false, fieldErrors: { composition: [parsed.message] } };
-    material = {
-      designation: values.alloy,
-      alloyKey: resolved.ok ? resolved.alloyKey : values.alloy.trim(),
-      basis: parsed.composition.basis,
-      compositionKind: "measured",
-      components: parsed.composition.components,
-    };
-  } else if (resolved.ok) {
-    material = { designation: values.alloy, alloyKey: resolved.alloyKey, basis: "wt", compositionKind: "nominal", components: resolved.components };
-  } else {
-    material = { designation: values.alloy, alloyKey: values.alloy.trim().replace(/\s+/g, " "), basis: "wt", compositionKind: "nominal", components: [] };
-  }
+  const material = materialFor(values.alloy, values.composition);
+  if (!material.ok) return { ok: false, fieldErrors: { composition: [material.message] } };
   return {
     ok: true,
-    material,
+    material: material.spec,
     write: {
       ...normalized,
       sourceId: values.sourceId,
       locationPage: values.locationPage,
       locationLabel: values.locationLabel,
-      alloyKey: material.alloyKey,
+      alloyKey: material.spec.alloyKey,
       machine: values.machine,
       spotDefinition: values.spotDefinition,
       atmosphere: values.atmosphere,
@@ -50,4 +35,42 @@ export function prepareRecord(values: RecordValues): PreparedRecord {
       qualityScore: null,
     },
   };
+}
+
+type MaterialResult = { ok: true; spec: MaterialSpec } | { ok: false; message: string };
+
+// A batch names a handful of alloys many times over; resolving each spelling once is enough.
+const MATERIAL_MEMO_LIMIT = 5_000;
+const materialMemo = new Map<string, MaterialResult>();
+
+function materialFor(alloy: string, composition: string | null): MaterialResult {
+  const key = `${alloy}\u0000${composition ?? ""}`;
+  let result = materialMemo.get(key);
+  if (result === undefined) {
+    result = resolveMaterial(alloy, composition);
+    if (materialMemo.size >= MATERIAL_MEMO_LIMIT) materialMemo.clear();
+    materialMemo.set(key, result);
+  }
+  return result;
+}
+
+function resolveMaterial(alloy: string, composition: string | null): MaterialResult {
+  const resolved = resolveAlloy(alloy);
+  let material: MaterialSpec;
+  if (composition) {
+    const parsed = parseComposition(composition);
+    if (!parsed.ok) return { ok: false, message: parsed.message };
+    material = {
+      designation: alloy,
+      alloyKey: resolved.ok ? resolved.alloyKey : alloy.trim(),
+      basis: parsed.composition.basis,
+      compositionKind: "measured",
+      components: parsed.composition.components,
+    };
+  } else if (resolved.ok) {
+    material = { designation: alloy, alloyKey: resolved.alloyKey, basis: "wt", compositionKind: "nominal", components: resolved.components };
+  } else {
+    material = { designation: alloy, alloyKey: alloy.trim().replace(/\s+/g, " "), basis: "wt", compositionKind: "nominal", components: [] };
+  }
+  return { ok: true, spec: material };
 }
