@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import type { ReactNode } from "react";
+import { AccountMenu } from "./_components/account-menu";
 import { BrandMark } from "./_components/brand-mark";
 import { SafetyNote } from "./_components/safety-note";
 import { TopNav } from "./_components/top-nav";
@@ -25,6 +26,7 @@ export default function RootLayout({ children }: { children: ReactNode }) {
               Meltledger
             </Link>
             <TopNav />
+            <AccountMenu />
           </div>
         </header>
         <main id="main" className="site-main" tabIndex={-1}>

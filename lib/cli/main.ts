@@ -7,6 +7,8 @@ const HELP = `meltledger — curation workbench for LPBF build records
 Commands:
   db migrate                         apply pending database migrations
   db seed [--reset] [--if-empty]     seed the demo scenario (--reset keeps the old database file aside and starts anew)
+  db backup OUT                      consistent online snapshot of the database and its stored files, with a manifest of SHA-256 hashes
+  db restore IN                      verify every hash of a backup, then put it in place (the replaced database is kept aside)
   records list --json [filters]      list records (--alloy, --source, --status, --outcome, --power/--speed/--hatch/--layer MIN-MAX, --limit N)
   sources list --json                list sources
   import FILE [--sheet NAME] [--mapping FILE.json] [--source-doi DOI | --source-id ID] [--dry-run] [--exclude-errors] [--json]
@@ -20,6 +22,12 @@ Commands:
   flags resolve ID --action waive|fix|reject --reason TEXT [--field F --value V --unit U]
                                      act on one flag (fix takes the suggested fix unless a value is given)
 
+  users add NAME --role contributor|reviewer|admin [--password-stdin] [--json]
+                                     add an account for team mode (the password is the first line of standard input)
+  users list --json                  every account: role, disabled, whether it can log in
+  users set NAME [--role R] [--disable | --enable] [--password-stdin]
+                                     change an account (disabling it or setting its password ends its sessions)
+
 DATABASE_URL selects the database (default file:./data/meltledger.db).
 `;
 
@@ -31,6 +39,7 @@ const COMMANDS: Record<string, () => Promise<CliCommand>> = {
   meltpool: async () => (await import("./commands/meltpool")).meltpool,
   check: async () => (await import("./commands/check")).check,
   flags: async () => (await import("./commands/flags")).flags,
+  users: async () => (await import("./commands/users")).users,
 };
 
 /** Dispatches a command line; returns the exit code (0 ok, 1 failure, 2 bad usage or input). */

@@ -1,7 +1,9 @@
 import { ensureUser } from "../db/users";
+import { ROLE_NAMES } from "../schemas/user";
+import { serverMode } from "./mode";
 import { AppFailure } from "./result";
 
-export const ROLES = ["contributor", "reviewer", "admin"] as const;
+export const ROLES = ROLE_NAMES;
 export type Role = (typeof ROLES)[number];
 
 export interface Actor {
@@ -26,9 +28,15 @@ export function requireRole(actor: Actor, role: Role): void {
 
 /**
  * The single local user of a workbench that listens only on loopback: an admin named "local".
- * Accounts and sessions for shared servers build on this.
+ * For local mode, the CLI and tests. Inside a server in team mode it refuses (throws), so a route
+ * that still calls it fails closed instead of acting as an admin: routes get their actor from the
+ * request (lib/server/auth.ts `authenticate`, through app/_lib/actor.ts).
  */
 export async function localActor(): Promise<Actor> {
+  const mode = serverMode();
+  if (mode.mode === "team" && mode.server !== "none") {
+    throw new AppFailure({ code: "unauthenticated", message: "This server runs in team mode: log in (the local user exists only in local mode)." });
+  }
   const user = await ensureUser("local", "admin");
   return { id: user.id, name: user.name, role: user.role as Role };
 }
@@ -36,7 +44,10 @@ export async function localActor(): Promise<Actor> {
 /** The actor for CLI commands: MELTLEDGER_USER names an existing or new account, else "local". */
 export async function cliActor(): Promise<Actor> {
   const name = process.env.MELTLEDGER_USER?.trim();
-  if (!name) return localActor();
+  if (!name) {
+    const user = await ensureUser("local", "admin");
+    return { id: user.id, name: user.name, role: user.role as Role };
+  }
   const user = await ensureUser(name, "contributor");
   return { id: user.id, name: user.name, role: user.role as Role };
 }

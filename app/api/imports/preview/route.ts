@@ -1,11 +1,14 @@
 import { NextResponse } from "next/server";
 import { previewImportRequest } from "@/lib/server/import-jobs";
+import { requestActor } from "../../../_lib/actor";
 import { errorResponse, readJson } from "../../_lib/json";
 
 export const dynamic = "force-dynamic";
 
 /** POST /api/imports/preview: the mapping as resolved and every row's problems; writes nothing. */
 export async function POST(request: Request) {
+  const actor = await requestActor(request);
+  if (!actor.ok) return errorResponse(actor.error);
   const body = await readJson(request);
   if (!body.ok) return errorResponse(body.error);
   const result = await previewImportRequest(body.body);

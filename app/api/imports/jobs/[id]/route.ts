@@ -1,5 +1,6 @@
 import { NextResponse } from "next/server";
 import { cancelImportJob, getImportJob, type ImportJobView } from "@/lib/server/import-jobs";
+import { requestActor } from "../../../../_lib/actor";
 import { errorResponse } from "../../../_lib/json";
 
 export const dynamic = "force-dynamic";
@@ -14,14 +15,18 @@ function slim(v: ImportJobView) {
 }
 
 /** GET /api/imports/jobs/:id: progress, and the result once finished. */
-export async function GET(_request: Request, { params }: Params) {
+export async function GET(request: Request, { params }: Params) {
+  const actor = await requestActor(request);
+  if (!actor.ok) return errorResponse(actor.error);
   const { id } = await params;
   const r = await getImportJob(id);
   return r.ok ? NextResponse.json(slim(r.data)) : errorResponse(r.error);
 }
 
 /** DELETE /api/imports/jobs/:id: cancels a running import (it rolls back). */
-export async function DELETE(_request: Request, { params }: Params) {
+export async function DELETE(request: Request, { params }: Params) {
+  const actor = await requestActor(request);
+  if (!actor.ok) return errorResponse(actor.error);
   const { id } = await params;
   const r = await cancelImportJob(id);
   return r.ok ? NextResponse.json(slim(r.data)) : errorResponse(r.error);
