@@ -1,11 +1,12 @@
+import { backupDatabase, restoreDatabase } from "../../server/backup";
 import { migrateDatabase } from "../../server/maintenance";
 import { seedDatabase } from "../../../seed/seed";
 import { parseCli, reportError } from "../args";
 import type { CliCommand } from "../types";
 
-const USAGE = "meltledger db migrate | meltledger db seed [--reset] [--if-empty] [--json]";
+const USAGE = "meltledger db migrate | meltledger db seed [--reset] [--if-empty] [--json] | meltledger db backup OUT [--json] | meltledger db restore IN [--json]";
 
-/** `meltledger db migrate` and `meltledger db seed [--reset] [--if-empty]`. */
+/** `meltledger db migrate`, `db seed [--reset] [--if-empty]`, `db backup OUT` and `db restore IN`. */
 export const db: CliCommand = async (argv, io) => {
   const [sub, ...rest] = argv;
   const parsed = parseCli(rest, { reset: { type: "boolean" }, "if-empty": { type: "boolean" }, json: { type: "boolean" } }, io, USAGE);
@@ -23,6 +24,25 @@ export const db: CliCommand = async (argv, io) => {
     if (json) io.stdout(`${JSON.stringify(r.data)}\n`);
     else if (r.data.skipped) io.stdout(`Database already holds data; demo scenario not seeded (use --reset to rebuild it).\n`);
     else io.stdout(`Seeded the demo scenario: ${r.data.sources} sources, ${r.data.records} records.${r.data.previousDatabase ? ` The previous database was kept at ${r.data.previousDatabase}.` : ""}\n`);
+    return 0;
+  }
+  if (sub === "backup" || sub === "restore") {
+    const where = parsed.positionals[0];
+    if (!where || parsed.positionals.length > 1) {
+      io.stderr(`Give one folder: the backup to write (backup) or to read (restore).\n\nUsage: ${USAGE}\n`);
+      return 2;
+    }
+    if (sub === "backup") {
+      const r = await backupDatabase(where);
+      if (!r.ok) return reportError(io, r.error, json);
+      if (json) io.stdout(`${JSON.stringify(r.data)}\n`);
+      else io.stdout(`Backup written to ${r.data.out}: database ${r.data.databaseBytes.toLocaleString("en")} bytes, ${r.data.files} stored file(s)${r.data.missingFiles.length ? `; ${r.data.missingFiles.length} stored file(s) named by the database were missing or damaged and are listed in manifest.json` : ""}.\n`);
+      return 0;
+    }
+    const r = await restoreDatabase(where);
+    if (!r.ok) return reportError(io, r.error, json);
+    if (json) io.stdout(`${JSON.stringify(r.data)}\n`);
+    else io.stdout(`Restored ${r.data.database} from ${r.data.restoredFrom} (every hash checked); ${r.data.filesCopied} stored file(s) copied, ${r.data.filesAlreadyPresent} already there.${r.data.previousDatabase ? ` The replaced database was kept at ${r.data.previousDatabase}.` : ""}\n`);
     return 0;
   }
   io.stderr(`Unknown or missing subcommand.\n\nUsage: ${USAGE}\n`);
