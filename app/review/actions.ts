@@ -1,6 +1,6 @@
 "use server";
 
-import { localActor } from "@/lib/server/actor";
+import { actionActor } from "../_lib/actor";
 import { acceptRecord, resolveFlag, resolveFlagsBulk } from "@/lib/server/review";
 
 /** What the queue shows after an action: a sentence, or the server's error as it came. */
@@ -8,7 +8,9 @@ export type ReviewActionState = { ok: true; message: string } | { ok: false; err
 
 /** One action on one flag (waive, fix, reject, merge, distinct). */
 export async function flagActionAction(input: { flagId: number; version: number; recordVersion: number; action: string; reason: string; fix?: { field: string; value: string; unit: string } | null }): Promise<ReviewActionState> {
-  const r = await resolveFlag(input, await localActor());
+  const actor = await actionActor();
+  if (!actor.ok) return { ok: false, error: actor.error };
+  const r = await resolveFlag(input, actor.data);
   if (!r.ok) return { ok: false, error: r.error };
   const d = r.data;
   const verb: Record<string, string> = { waive: "waived", fix: "fixed", reject: "rejected with its record", merge: "merged", distinct: "marked distinct" };
@@ -21,14 +23,18 @@ export async function flagActionAction(input: { flagId: number; version: number;
 
 /** Accepts a record (refused while an error flag of it is open). */
 export async function acceptRecordAction(input: { recordId: number; version: number }): Promise<ReviewActionState> {
-  const r = await acceptRecord(input, await localActor());
+  const actor = await actionActor();
+  if (!actor.ok) return { ok: false, error: actor.error };
+  const r = await acceptRecord(input, actor.data);
   if (!r.ok) return { ok: false, error: r.error };
   return { ok: true, message: `Record ${r.data.recordId} accepted${r.data.acceptedFlags ? ` with ${r.data.acceptedFlags} remaining note${r.data.acceptedFlags === 1 ? "" : "s"}` : ""}.` };
 }
 
 /** The same action on the selected flags. */
 export async function bulkFlagAction(input: { items: { flagId: number; version: number }[]; action: string; reason: string }): Promise<ReviewActionState> {
-  const r = await resolveFlagsBulk(input, await localActor());
+  const actor = await actionActor();
+  if (!actor.ok) return { ok: false, error: actor.error };
+  const r = await resolveFlagsBulk(input, actor.data);
   if (!r.ok) return { ok: false, error: r.error };
   const failed = r.data.items.filter((i) => !i.ok);
   const message = `${r.data.done} flag${r.data.done === 1 ? "" : "s"} done${failed.length ? `; ${failed.length} not: ${failed.map((f) => `#${f.flagId} (${f.error?.message})`).join(" ")}` : "."}`;

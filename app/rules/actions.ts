@@ -1,7 +1,7 @@
 "use server";
 
 import { redirect } from "next/navigation";
-import { localActor } from "@/lib/server/actor";
+import { actionActor } from "../_lib/actor";
 import { saveCheckSettings } from "@/lib/server/check-settings";
 import type { FormState } from "../_components/form-result";
 
@@ -9,7 +9,9 @@ import type { FormState } from "../_components/form-result";
 export async function saveCheckSettingsAction(formData: FormData): Promise<FormState> {
   const values: Record<string, string> = {};
   for (const [key, value] of formData.entries()) if (key.startsWith("setting:") && typeof value === "string") values[key.slice("setting:".length)] = value;
-  const result = await saveCheckSettings({ values, basedOnVersion: formData.get("basedOnVersion"), reason: formData.get("reason") }, await localActor());
+  const actor = await actionActor();
+  if (!actor.ok) return { error: actor.error };
+  const result = await saveCheckSettings({ values, basedOnVersion: formData.get("basedOnVersion"), reason: formData.get("reason") }, actor.data);
   if (!result.ok) return { error: result.error };
   redirect(`/rules?saved=${result.data.version}#settings`);
 }

@@ -66,12 +66,12 @@ export async function getCheckSettings(): Promise<Result<CheckSettingsPage>> {
 }
 
 /**
- * Saves a new settings version (reviewers only). The editor names the version they started from;
+ * Saves a new settings version (admins only: admins manage settings). The editor names the version they started from;
  * if another version was saved meanwhile, nothing is saved and a conflict says which.
  */
 export async function saveCheckSettings(input: unknown, actor: Actor): Promise<Result<{ version: number }>> {
   return guard(async () => {
-    requireRole(actor, "reviewer");
+    requireRole(actor, "admin");
     const parsed = checkSettingsInputSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "Some settings need attention; nothing was saved.");
     const db = sqlite();

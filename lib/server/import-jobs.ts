@@ -1,7 +1,7 @@
 import { randomUUID } from "node:crypto";
 import { existsSync } from "node:fs";
 import { importRequestSchema } from "../schemas/import";
-import { type Actor } from "./actor";
+import { hasRole, requireRole, type Actor } from "./actor";
 import { storedFilePath } from "./files";
 import type { ImportRunRow } from "../db/imports";
 import { getNewRecordForm } from "./record-editor";
@@ -70,6 +70,7 @@ const view = (j: ImportJob): ImportJobView => ({ id: j.id, state: j.state, progr
 /** Starts a commit in the background and returns its id; progress and the result are read with getImportJob. */
 export async function startImportJob(body: unknown, actor: Actor): Promise<Result<ImportJobView>> {
   return guard(async () => {
+    requireRole(actor, "contributor");
     const r = toInput(body);
     if (!r.ok) return r;
     for (const [id, j] of jobs) if (j.state === "finished" && Date.now() - j.startedAt > KEEP_MS) jobs.delete(id);
@@ -95,10 +96,14 @@ export async function getImportJob(id: string): Promise<Result<ImportJobView>> {
   return job ? ok(view(job)) : fail("not_found", "No such import (finished imports are kept for an hour).");
 }
 
-/** Asks a running import to stop; its transaction rolls back, so nothing of it stays. */
-export async function cancelImportJob(id: string): Promise<Result<ImportJobView>> {
+/**
+ * Asks a running import to stop; its transaction rolls back, so nothing of it stays. With an
+ * actor, only the one who started it or an admin may stop it.
+ */
+export async function cancelImportJob(id: string, actor?: Actor): Promise<Result<ImportJobView>> {
   const job = jobs.get(id);
   if (!job) return fail("not_found", "No such import.");
+  if (actor && job.actorId !== actor.id && !hasRole(actor, "admin")) return fail("forbidden", "Only the one who started this import, or an admin, may cancel it.");
   job.controller.abort();
   return ok(view(job));
 }

@@ -28,6 +28,6 @@ export async function DELETE(request: Request, { params }: Params) {
   const actor = await requestActor(request);
   if (!actor.ok) return errorResponse(actor.error);
   const { id } = await params;
-  const r = await cancelImportJob(id);
+  const r = await cancelImportJob(id, actor.data);
   return r.ok ? NextResponse.json(slim(r.data)) : errorResponse(r.error);
 }
