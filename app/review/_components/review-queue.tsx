@@ -70,8 +70,14 @@ export function ReviewQueueView({ queue }: { queue: ReviewQueue }) {
   // Keep the current flag in view and focused when it or the data changes.
   useEffect(() => {
     if (mode) return;
-    const el = cards.current[index];
-    if (el && document.activeElement !== el && !isTyping(document.activeElement)) el.focus({ preventScroll: false });
+    const focus = () => {
+      const el = cards.current[index];
+      if (el && document.activeElement !== el && !isTyping(document.activeElement)) el.focus({ preventScroll: false });
+    };
+    focus();
+    // The router may move focus after a navigation or refresh settles; take it back once more.
+    const frame = requestAnimationFrame(focus);
+    return () => cancelAnimationFrame(frame);
   }, [index, queue, mode]);
 
   // Selections of flags that are gone are dropped.
