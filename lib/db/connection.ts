@@ -17,8 +17,14 @@ export function applyConnectionPragmas(db: SqliteDatabase): void {
 export function openSqlite(filePath: string, options: { readonly?: boolean } = {}): SqliteDatabase {
   if (!options.readonly) mkdirSync(path.dirname(filePath), { recursive: true });
   const db = new Database(filePath, { readonly: options.readonly ?? false, fileMustExist: options.readonly ?? false });
-  if (!options.readonly) applyConnectionPragmas(db);
-  else db.pragma("busy_timeout = 10000");
+  try {
+    if (!options.readonly) applyConnectionPragmas(db);
+    else db.pragma("busy_timeout = 10000");
+  } catch (error) {
+    // e.g. WAL cannot be set up on a read-only disk: do not leave the handle open behind the error
+    db.close();
+    throw error;
+  }
   return db;
 }
 

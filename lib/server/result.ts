@@ -63,10 +63,35 @@ export async function guard<T>(body: () => Promise<Result<T>>): Promise<Result<T
     return await body();
   } catch (error) {
     if (error instanceof AppFailure) return { ok: false, error: error.error };
-    const code = (error as { code?: string }).code;
-    if (code === "SQLITE_BUSY" || code === "P2034") return fail("unavailable", "The database is busy; try again in a moment.");
-    if (code === "SQLITE_READONLY" || code === "SQLITE_FULL") return fail("unavailable", "The database cannot be written (read-only or full disk); nothing was changed.");
+    const storage = storageFailure(error);
+    if (storage) return storage;
     console.error("[meltledger] unexpected error", error);
     return fail("internal", "Something went wrong on the server; nothing was changed. The error was logged.");
   }
+}
+
+/**
+ * The SQLite error code of an error from better-sqlite3 (`code`), the Prisma driver adapter
+ * (`cause.originalCode`) or a file-system call (`ENOSPC`, `EROFS`, …), or null.
+ */
+export function sqliteCodeOf(error: unknown): string | null {
+  if (!error || typeof error !== "object") return null;
+  const e = error as { code?: unknown; cause?: { originalCode?: unknown }; meta?: { driverAdapterError?: { cause?: { originalCode?: unknown } } } };
+  // the Prisma adapter wraps the SQLite error, once (DriverAdapterError) or twice (a known request error's meta)
+  const wrapped = e.cause?.originalCode ?? e.meta?.driverAdapterError?.cause?.originalCode;
+  if (typeof wrapped === "string") return wrapped;
+  if (typeof e.code === "string" && (e.code.startsWith("SQLITE_") || /^E[A-Z]+$/.test(e.code) || e.code === "P2034")) return e.code;
+  return null;
+}
+
+/** Busy, read-only, full or unreadable storage as an `unavailable` error with a message that says which; null for anything else. */
+export function storageFailure(error: unknown): { ok: false; error: AppError } | null {
+  const code = sqliteCodeOf(error);
+  if (!code) return null;
+  if (code === "P2034" || code.startsWith("SQLITE_BUSY") || code.startsWith("SQLITE_LOCKED")) return fail("unavailable", "The database is busy; try again in a moment.");
+  if (code.startsWith("SQLITE_FULL") || code === "ENOSPC" || code === "EDQUOT") return fail("unavailable", "The disk holding the database is full; nothing was changed. Free some space and try again.", { storage: "full" });
+  if (code.startsWith("SQLITE_READONLY") || code === "EROFS" || code === "EACCES" || code === "EPERM") return fail("unavailable", "The database is read-only (its file, folder or disk cannot be written); nothing was changed.", { storage: "read_only" });
+  if (code.startsWith("SQLITE_CANTOPEN")) return fail("unavailable", "The database file cannot be opened for writing (SQLITE_CANTOPEN): its folder or disk may be read-only, or the file is missing; nothing was changed.", { storage: "cannot_open" });
+  if (code.startsWith("SQLITE_IOERR")) return fail("unavailable", `The disk reported an error while reading or writing the database (${code}); nothing was changed. Check the disk.`, { storage: "io_error" });
+  return null;
 }

@@ -1,0 +1,39 @@
+import { describe, expect, test } from "vitest";
+import { guard, sqliteCodeOf, storageFailure } from "./result";
+
+const sqliteError = (code: string) => Object.assign(new Error("sqlite"), { code });
+// the shapes the Prisma driver adapter throws: a DriverAdapterError, and a known request error around one
+const adapterError = (code: string) => Object.assign(new Error("adapter"), { cause: { originalCode: code, kind: "sqlite" } });
+const prismaError = (code: string) => Object.assign(new Error("prisma"), { code: "P2039", meta: { driverAdapterError: { cause: { originalCode: code } } } });
+
+describe("storage errors", () => {
+  test.each([
+    [sqliteError("SQLITE_FULL"), "full"],
+    [adapterError("SQLITE_FULL"), "full"],
+    [prismaError("SQLITE_FULL"), "full"],
+    [Object.assign(new Error("fs"), { code: "ENOSPC" }), "full"],
+    [sqliteError("SQLITE_READONLY"), "read_only"],
+    [sqliteError("SQLITE_READONLY_DBMOVED"), "read_only"],
+    [adapterError("SQLITE_READONLY"), "read_only"],
+    [Object.assign(new Error("fs"), { code: "EROFS" }), "read_only"],
+    [prismaError("SQLITE_CANTOPEN"), "cannot_open"],
+    [sqliteError("SQLITE_IOERR_WRITE"), "io_error"],
+  ])("%s is unavailable (%s), never internal", async (error, storage) => {
+    const r = await guard(async () => {
+      throw error;
+    });
+    expect(!r.ok && r.error).toMatchObject({ code: "unavailable", details: { storage } });
+  });
+
+  test.each([[sqliteError("SQLITE_BUSY")], [adapterError("SQLITE_BUSY")], [Object.assign(new Error("tx"), { code: "P2034" })]])("busy %s is unavailable", (error) => {
+    expect(storageFailure(error)?.error.code).toBe("unavailable");
+  });
+
+  test.each([[new Error("plain")], [sqliteError("SQLITE_CONSTRAINT")], [Object.assign(new Error("fs"), { code: "ENOENT" })], [null], ["text"]])("%s is not a storage failure", (error) => {
+    expect(storageFailure(error)).toBeNull();
+  });
+
+  test("sqliteCodeOf prefers the wrapped SQLite code over Prisma's own", () => {
+    expect(sqliteCodeOf(prismaError("SQLITE_FULL"))).toBe("SQLITE_FULL");
+  });
+});
