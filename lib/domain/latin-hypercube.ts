@@ -108,10 +108,11 @@ export function maximinLatinHypercube(n: number, dims: number, random: () => num
   if (n < 3) return latinHypercube(n, dims, random, options.jitter ?? false);
 
   // term(i, j) = d_ij^−p in stratum units; φ_p^p is the sum over pairs.
-  const term = (s: number[][], i: number, j: number) => squaredDistance(s, i, j) ** (-p / 2);
+  const power = -p / 2;
+  const termOf = p === 15 ? (s: number) => 1 / (s * s * s * s * s * s * s * Math.sqrt(s)) : (s: number) => s ** power;
   const sumOf = (s: number[][]) => {
     let total = 0;
-    for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) total += term(s, i, j);
+    for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) total += termOf(squaredDistance(s, i, j));
     return total;
   };
   let strata = randomStrata(n, dims, random);
@@ -124,27 +125,44 @@ export function maximinLatinHypercube(n: number, dims: number, random: () => num
       sum = otherSum;
     }
   }
-  // Swaps only change the distances of the two points swapped: O(n) per proposal.
+  // The terms of every pair, kept: a swap changes only the 2n − 3 terms of the two points swapped.
+  const terms = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const t = termOf(squaredDistance(strata, i, j));
+      terms[i * n + j] = t;
+      terms[j * n + i] = t;
+    }
+  }
+  const fresh = new Float64Array(2 * n);
   for (let it = 0; it < iterations; it++) {
     const d = Math.floor(random() * dims);
     const a = Math.floor(random() * n);
     let b = Math.floor(random() * (n - 1));
     if (b >= a) b++;
-    let before = 0;
-    for (let k = 0; k < n; k++) {
-      if (k !== a) before += term(strata, a, k);
-      if (k !== b && k !== a) before += term(strata, b, k);
-    }
     const axis = strata[d]!;
     const t = axis[a]!;
     axis[a] = axis[b]!;
     axis[b] = t;
+    let before = 0;
     let after = 0;
     for (let k = 0; k < n; k++) {
-      if (k !== a) after += term(strata, a, k);
-      if (k !== b && k !== a) after += term(strata, b, k);
+      if (k === a || k === b) continue;
+      before += terms[a * n + k]! + terms[b * n + k]!;
+      const ta = termOf(squaredDistance(strata, a, k));
+      const tb = termOf(squaredDistance(strata, b, k));
+      fresh[k] = ta;
+      fresh[n + k] = tb;
+      after += ta + tb;
     }
-    if (!(after < before)) {
+    // The pair (a, b) itself keeps its distance: a swap on one axis leaves |a − b| unchanged.
+    if (after < before) {
+      for (let k = 0; k < n; k++) {
+        if (k === a || k === b) continue;
+        terms[a * n + k] = terms[k * n + a] = fresh[k]!;
+        terms[b * n + k] = terms[k * n + b] = fresh[n + k]!;
+      }
+    } else {
       axis[b] = axis[a]!;
       axis[a] = t;
     }
