@@ -10,7 +10,7 @@ import { LoadError } from "./_components/load-error";
 import { outcomeText } from "./_components/outcome-label";
 import { PageHeader } from "./_components/page-header";
 import { outcomeColour, statusColours } from "./_components/palette";
-import { statusLabel } from "./_components/status-badge";
+import { SeverityBadge, statusLabel } from "./_components/status-badge";
 
 export const dynamic = "force-dynamic";
 
@@ -21,7 +21,7 @@ const ACTION_VERB: Record<string, string> = { create: "created", update: "edited
 export default async function HomePage() {
   const result = await getDashboard();
   if (!result.ok) return <LoadError error={result.error} what="the overview" />;
-  const { stats, recent } = result.data;
+  const { stats, recent, flags } = result.data;
 
   const statusBars: BarDatum[] = RECORD_STATUSES.filter((s) => (stats.byStatus[s] ?? 0) > 0).map((s) => ({
     label: statusLabel(s),
@@ -145,6 +145,33 @@ export default async function HomePage() {
               <h2 id="by-outcome">Records by outcome</h2>
             </div>
             <BarChart data={outcomeBars} title="Records by outcome" unit="records" width={460} />
+          </section>
+
+          <section className="panel" aria-labelledby="open-flags">
+            <div className="panel__title">
+              <h2 id="open-flags">Open flags</h2>
+              <span className="muted">on {plural(flags.records, "record")}</span>
+            </div>
+            {flags.records === 0 ? (
+              <p className="muted">No open flags: every check passes or was worked off.</p>
+            ) : (
+              <>
+                <ul className="link-list" aria-label="Open flags by severity">
+                  {(["error", "warning", "info"] as const).map((severity) => (
+                    <li key={severity}>
+                      <Link href="/review" className="next-step">
+                        <span>
+                          <SeverityBadge severity={severity} /> <span className="next-step__title">{formatNumber(flags.bySeverity[severity] ?? 0, 0)}</span>
+                        </span>
+                      </Link>
+                    </li>
+                  ))}
+                </ul>
+                <p className="muted" style={{ marginTop: "0.75rem" }}>
+                  Most frequent: {flags.byRule.slice(0, 3).map((r) => `${r.ruleCode} (${formatNumber(r.count, 0)})`).join(", ")}. <Link href="/review">Open the review queue</Link>.
+                </p>
+              </>
+            )}
           </section>
 
           <section className="panel" aria-labelledby="next">
