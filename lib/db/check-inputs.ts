@@ -10,32 +10,8 @@ export interface CheckInputRow extends CheckRecord {
   qualityScore: number | null;
 }
 
-interface RawRecord {
-  id: number;
-  sourceId: number;
-  materialId: number;
-  alloyKey: string;
-  laserPowerW: number | null;
-  scanSpeedMmPerS: number | null;
-  hatchSpacingUm: number | null;
-  layerThicknessUm: number | null;
-  spotDiameterUm: number | null;
-  preheatC: number | null;
-  powderD10Um: number | null;
-  powderD50Um: number | null;
-  powderD90Um: number | null;
-  relativeDensityPct: number | null;
-  volumetricEnergyJMm3: number | null;
-  outcome: string;
-  machine: string | null;
-  atmosphere: string | null;
-  spotDefinition: string | null;
-  enteredValues: string;
-  status: string;
-  version: number;
-  qualityScore: number | null;
-}
 
+/** The columns read, in the order CheckInput's constructor takes them. */
 const COLUMNS = `id, sourceId, materialId, alloyKey, laserPowerW, scanSpeedMmPerS, hatchSpacingUm, layerThicknessUm, spotDiameterUm, preheatC,
   powderD10Um, powderD50Um, powderD90Um, relativeDensityPct, volumetricEnergyJMm3, outcome, machine, atmosphere, spotDefinition, enteredValues,
   status, version, qualityScore`;
@@ -105,32 +81,34 @@ class CheckInput implements CheckInputRow {
   private enteredText: string;
   private parsed: CheckRecord["entered"] | null = null;
 
-  constructor(r: RawRecord, material: { basis: string; components: Components } | undefined) {
-    this.id = r.id;
-    this.sourceId = r.sourceId;
-    this.alloyKey = r.alloyKey;
+  /** `r` is a row of COLUMNS in raw (array) form: no object per row from the driver. */
+  constructor(r: unknown[], materials: Map<number, { basis: string; components: Components }>) {
+    const material = materials.get(r[2] as number);
+    this.id = r[0] as number;
+    this.sourceId = r[1] as number;
+    this.alloyKey = r[3] as string;
     this.components = material?.components ?? NO_COMPONENTS;
     this.compositionBasis = material?.basis ?? "wt";
-    this.laserPowerW = r.laserPowerW;
-    this.scanSpeedMmPerS = r.scanSpeedMmPerS;
-    this.hatchSpacingUm = r.hatchSpacingUm;
-    this.layerThicknessUm = r.layerThicknessUm;
-    this.spotDiameterUm = r.spotDiameterUm;
-    this.preheatC = r.preheatC;
-    this.powderD10Um = r.powderD10Um;
-    this.powderD50Um = r.powderD50Um;
-    this.powderD90Um = r.powderD90Um;
-    this.relativeDensityPct = r.relativeDensityPct;
-    this.volumetricEnergyJMm3 = r.volumetricEnergyJMm3;
-    this.outcome = r.outcome;
-    this.machine = r.machine;
-    this.atmosphere = r.atmosphere;
-    this.spotDefinition = r.spotDefinition;
-    this.status = r.status;
-    this.version = r.version;
-    this.qualityScore = r.qualityScore;
-    this.enteredText = r.enteredValues;
-    this.enteredAllReported = !r.enteredValues.includes('"assumed"') && !r.enteredValues.includes('"derived"');
+    this.laserPowerW = r[4] as number | null;
+    this.scanSpeedMmPerS = r[5] as number | null;
+    this.hatchSpacingUm = r[6] as number | null;
+    this.layerThicknessUm = r[7] as number | null;
+    this.spotDiameterUm = r[8] as number | null;
+    this.preheatC = r[9] as number | null;
+    this.powderD10Um = r[10] as number | null;
+    this.powderD50Um = r[11] as number | null;
+    this.powderD90Um = r[12] as number | null;
+    this.relativeDensityPct = r[13] as number | null;
+    this.volumetricEnergyJMm3 = r[14] as number | null;
+    this.outcome = r[15] as string;
+    this.machine = r[16] as string | null;
+    this.atmosphere = r[17] as string | null;
+    this.spotDefinition = r[18] as string | null;
+    this.enteredText = r[19] as string;
+    this.status = r[20] as string;
+    this.version = r[21] as number;
+    this.qualityScore = r[22] as number | null;
+    this.enteredAllReported = !this.enteredText.includes('"assumed"') && !this.enteredText.includes('"derived"');
   }
 
   get entered(): CheckRecord["entered"] {
@@ -138,16 +116,16 @@ class CheckInput implements CheckInputRow {
   }
 }
 
-function toInputs(db: SqliteDatabase, rows: RawRecord[]): CheckInputRow[] {
-  const materials = materialComponents(db, rows.map((r) => r.materialId));
-  return rows.map((r) => new CheckInput(r, materials.get(r.materialId)));
+function toInputs(db: SqliteDatabase, rows: unknown[][]): CheckInputRow[] {
+  const materials = materialComponents(db, rows.map((r) => r[2] as number));
+  return rows.map((r) => new CheckInput(r, materials));
 }
 
 /** Every active record, or the active records of the given alloys. */
 export function loadCheckRecords(db: SqliteDatabase, alloyKeys: readonly string[] | "all"): CheckInputRow[] {
-  if (alloyKeys === "all") return toInputs(db, db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} ORDER BY id`).all() as RawRecord[]);
+  if (alloyKeys === "all") return toInputs(db, db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} ORDER BY id`).raw(true).all() as unknown[][]);
   if (!alloyKeys.length) return [];
-  return toInputs(db, db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} AND alloyKey IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY id`).all(...alloyKeys) as RawRecord[]);
+  return toInputs(db, db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} AND alloyKey IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY id`).raw(true).all(...alloyKeys) as unknown[][]);
 }
 
 /** Alloy and status of the given records (any status), for choosing what to load. */

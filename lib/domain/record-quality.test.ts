@@ -1,6 +1,6 @@
 import { describe, expect, test } from "vitest";
 import fc from "fast-check";
-import { completenessInputOf, recordCompleteness, recordQuality, type CompletenessInput } from "./record-quality";
+import { completenessInputOf, completenessValueOf, recordCompleteness, recordQuality, type CompletenessInput } from "./record-quality";
 
 const full: CompletenessInput["fields"] = {
   laserPower: { present: true },
@@ -70,5 +70,22 @@ describe("completenessInputOf", () => {
     expect(input.fields.spotDiameter).toEqual({ present: true, provenance: "assumed" });
     expect(input.fields.hatchSpacing?.present).toBe(false);
     expect(input.fields.result?.present).toBe(false);
+  });
+});
+
+describe("completenessValueOf", () => {
+  test("property: equals recordCompleteness of completenessInputOf", () => {
+    const value = fc.option(fc.double({ min: 1, max: 500, noNaN: true }), { nil: null });
+    const provenance = fc.constantFrom(undefined, "reported", "derived", "assumed");
+    fc.assert(
+      fc.property(value, value, value, value, value, value, value, fc.constantFrom("dense", "unknown", "keyhole"), provenance, provenance, fc.boolean(), fc.double({ min: 0, max: 1, noNaN: true }), (p, v, h, t, d, d50, rd, outcome, spotProv, hatchProv, allReported, factor) => {
+        const r = {
+          laserPowerW: p, scanSpeedMmPerS: v, hatchSpacingUm: h, layerThicknessUm: t, spotDiameterUm: d, powderD50Um: d50, relativeDensityPct: rd, outcome,
+          entered: { spotDiameter: { provenance: spotProv }, hatchSpacing: { provenance: hatchProv } }, enteredAllReported: allReported && spotProv !== "assumed" && spotProv !== "derived" && hatchProv !== "assumed" && hatchProv !== "derived",
+        };
+        const s = { "completeness.factor.assumed": factor };
+        expect(completenessValueOf(r, s)).toBeCloseTo(recordCompleteness(completenessInputOf(r), s).value, 12);
+      }),
+    );
   });
 });

@@ -10,7 +10,7 @@
  */
 import { checkRecords, DUPLICATE_CODES, type Finding } from "../domain/checks/index";
 import { physicsProvider } from "../domain/checks/physics-input";
-import { completenessInputOf, recordCompleteness, recordQuality } from "../domain/record-quality";
+import { completenessValueOf, recordQuality } from "../domain/record-quality";
 import { scoreSource } from "../domain/source-quality";
 import { appendAuditRaw } from "../db/audit-raw";
 import { loadCheckRecords, loadPropertyOverrides, loadSourceAttributes, recordKeys, reopenAcceptedRecords, writeQualityScores, type CheckInputRow } from "../db/check-inputs";
@@ -156,7 +156,7 @@ export function runChecksSync(scope: "all" | readonly number[], options: RunChec
     for (const id of fullIds) {
       const r = byId.get(id);
       if (!r) continue;
-      const q = recordQuality(sourceScores.get(r.sourceId) ?? 0, recordCompleteness(completenessInputOf(r), settings.values).value);
+      const q = recordQuality(sourceScores.get(r.sourceId) ?? 0, completenessValueOf(r, settings.values));
       if (r.qualityScore !== q) scores.push([id, q]);
     }
     writeQualityScores(db, scores);

@@ -57,6 +57,6 @@ describe("physicsProvider", () => {
 
   test("a property override for the alloy is used", () => {
     const withOverride = physicsProvider(settings, new Map([["316L", { absorptivity: 0.9 }]]));
-    expect(withOverride(checkRecordOf())!.inputs.absorptivity).toBe(0.9);
+    expect(withOverride(checkRecordOf())!.inputs().absorptivity).toBe(0.9);
   });
 });

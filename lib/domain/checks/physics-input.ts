@@ -92,7 +92,7 @@ export function physicsProvider(settings: CheckSettings, overrides: ReadonlyMap<
         model: `Eagar–Tsai (${pool.method === "surface" ? "precomputed surface" : "direct integration"}), properties ${basis}`,
         meltPool: { widthUm: pool.widthUm, depthUm: pool.depthUm, lengthUm: pool.lengthUm, melted: pool.melted },
         criteria: criteria.map((c) => ({ mode: c.mechanism, name: c.rule, value: c.value, threshold: c.threshold, comparison: c.comparison, fired: c.fired, margin: c.margin })),
-        inputs: {
+        inputs: () => ({
           absorptivity: m.absorptivity,
           densityKgPerM3: m.densityKgPerM3,
           specificHeatJPerKgK: m.specificHeatJPerKgK,
@@ -100,7 +100,7 @@ export function physicsProvider(settings: CheckSettings, overrides: ReadonlyMap<
           meltingTemperatureK: m.meltingTemperatureK,
           ambientTemperatureK,
           normalizedEnthalpy: Number(enthalpy.toPrecision(5)),
-        },
+        }),
         notes: notes.length || pool.notes.length ? [...notes, ...pool.notes] : NO_NOTES,
       };
     } catch (error) {

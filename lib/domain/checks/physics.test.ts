@@ -16,7 +16,7 @@ function assessment(lof: number, keyholeWD: number, ballingLW: number): PhysicsA
     judged("keyhole", "W/D <= threshold", keyholeWD, 2.5, "<="),
     judged("balling", "L/W >= threshold", ballingLW, 2.3, ">="),
   ];
-  return { model: "test", meltPool: { widthUm: 100, depthUm: 40, lengthUm: 200, melted: true }, criteria, inputs: { absorptivity: 0.35 }, notes: [] };
+  return { model: "test", meltPool: { widthUm: 100, depthUm: 40, lengthUm: 200, melted: true }, criteria, inputs: () => ({ absorptivity: 0.35 }), notes: [] };
 }
 
 describe("criterionMargin", () => {

@@ -34,8 +34,8 @@ export interface PhysicsAssessment {
   model: string;
   meltPool: { widthUm: number; depthUm: number; lengthUm: number; melted: boolean };
   criteria: readonly CriterionValue[];
-  /** The inputs the model used (properties, absorptivity, ...), for the reviewer. */
-  inputs: Record<string, number | string>;
+  /** The inputs the model used (properties, absorptivity, ...), for the reviewer; built only when a finding is made. */
+  inputs: () => Record<string, number | string>;
   notes: readonly string[];
 }
 
@@ -133,9 +133,9 @@ export function outcomeVersusPhysics(record: CheckRecord, physics: PhysicsAssess
   }
   if (!message) return null;
   const details = {
-    inputs: { outcome: record.outcome, model: physics.model, widthUm: round(physics.meltPool.widthUm), depthUm: round(physics.meltPool.depthUm), lengthUm: round(physics.meltPool.lengthUm), ...physics.inputs },
+    inputs: { outcome: record.outcome, model: physics.model, widthUm: round(physics.meltPool.widthUm), depthUm: round(physics.meltPool.depthUm), lengthUm: round(physics.meltPool.lengthUm), ...physics.inputs() },
     thresholds: { marginLackOfFusion: margins.lack_of_fusion, marginKeyhole: margins.keyhole, marginBalling: margins.balling },
-    criteria: physics.criteria.map((c) => ({ ...c, value: c.value === null ? null : round(c.value), margin: c.margin === null ? null : round(c.margin) })),
+    criteria: physics.criteria.map((c) => ({ mode: c.mode, name: c.name, value: c.value === null ? null : round(c.value), threshold: c.threshold, comparison: c.comparison, fired: c.fired, margin: c.margin === null ? null : round(c.margin) })),
     notes: [...physics.notes],
   };
   return {
