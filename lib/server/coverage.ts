@@ -156,6 +156,11 @@ function describeSelection(q: CoverageQuery): string {
 const WINDOW_CACHE_LIMIT = 32;
 const windowCache = new Map<string, { mask: boolean[][]; boundaries: WindowBoundary[] }>();
 
+/** Forgets the kept windows (benchmarks measure the cost of drawing one). */
+export function clearCoverageCache(): void {
+  windowCache.clear();
+}
+
 function computeWindow(q: CoverageQuery, columns: SelectionColumns, powerAxis: AxisSpec, speedAxis: AxisSpec, powerEdgesW: number[], speedEdgesMmPerS: number[]): { window: CoverageWindow | null; reason: string | null } {
   if (q.alloy === null) return { window: null, reason: "The process window depends on the alloy: choose one alloy to draw it and to score coverage inside it." };
   const resolved = resolveAlloy(q.alloy);
