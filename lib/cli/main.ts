@@ -21,6 +21,8 @@ Commands:
                                      every matching flag as a JSON array (record_id, import_file, import_row, code, severity, message, details)
   flags resolve ID --action waive|fix|reject --reason TEXT [--field F --value V --unit U]
                                      act on one flag (fix takes the suggested fix unless a value is given)
+  export --label binary|multiclass|density --balance none|weights|over|under|smote|gaussian --split source:0.7,0.15,0.15|folds:5 --seed N --out DIR
+                                     write a training set (CSV, Parquet, DATASHEET.md, manifest.json) and save the run; --rerun NAME runs a saved one again
   coverage [--alloy 316L] [--hatch 80-120um] [--layer 30um] [--k 3] [--json]
                                      record counts over the power–speed plane, sparse cells and the coverage score
   suggest --alloy 316L --power 50-400W --speed 200-2000mm/s --hatch 100um --layer 30um [--n 12] [--seed 1] [--out FILE.csv]
@@ -43,6 +45,7 @@ const COMMANDS: Record<string, () => Promise<CliCommand>> = {
   meltpool: async () => (await import("./commands/meltpool")).meltpool,
   check: async () => (await import("./commands/check")).check,
   flags: async () => (await import("./commands/flags")).flags,
+  export: async () => (await import("./commands/export")).exportCommand,
   coverage: async () => (await import("./commands/coverage")).coverage,
   suggest: async () => (await import("./commands/suggest")).suggest,
   users: async () => (await import("./commands/users")).users,

@@ -29,6 +29,11 @@ export interface BuildInput {
   records: readonly ExportRecord[];
   sources: readonly ExportSource[];
   options: ExportOptions;
+  /**
+   * When the caller read only part of the collection (e.g. the database query already applied the
+   * status, alloy and source filters): the collection's size and what that left out, by reason.
+   */
+  narrowed?: { total: number; dropped: Partial<Record<DropReason, number>> };
   /** A clock in ms (e.g. performance.now) to time the stages; without it no timings are taken. */
   clock?: () => number;
 }
@@ -172,9 +177,11 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
   }
   const noLabel = Object.values(noLabelReasons).reduce((s, n) => s + n, 0);
   const dropped = { ...filtered.dropped, no_label: noLabel };
+  for (const [reason, n] of Object.entries(input.narrowed?.dropped ?? {})) dropped[reason as DropReason] += n ?? 0;
+  const collectionSize = input.narrowed?.total ?? records.length;
   if (!labelled.length) {
     const why = Object.entries(dropped).filter(([, n]) => n > 0).map(([k, n]) => `${n} by ${k.replace("_", " ")}`).join(", ");
-    return { ok: false, problem: { code: "no_rows", message: `No record is left to export: ${records.length} record(s) in the collection${why ? `, ${why}` : ""}. Loosen the filters (for records awaiting review, include unreviewed ones) or choose another label.`, details: { dropped } } };
+    return { ok: false, problem: { code: "no_rows", message: `No record is left to export: ${collectionSize} record(s) in the collection${why ? `, ${why}` : ""}. Loosen the filters (for records awaiting review, include unreviewed ones) or choose another label.`, details: { dropped } } };
   }
 
   const rng = streams(options.seed);
@@ -425,7 +432,7 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
       tables,
       partitions,
       classes,
-      counts: { records: records.length, dropped, noLabelReasons, labelled: labelled.length, before, after, synthetic: syntheticCounts, underSampled },
+      counts: { records: collectionSize, dropped, noLabelReasons, labelled: labelled.length, before, after, synthetic: syntheticCounts, underSampled },
       classWeights: classWeights ? Object.fromEntries([...classWeights].sort(([a], [b]) => (a < b ? -1 : 1)).map(([c, w]) => [c, roundSig(w)!])) : null,
       fills: filled.reports,
       sources,
