@@ -104,6 +104,12 @@ function close(a: number | null, b: number | null, abs: number, rel: number): bo
   return Math.abs(a - b) <= Math.max(abs, rel * Math.max(Math.abs(a), Math.abs(b))) + 1e-9;
 }
 
+/** `close` on numbers where NaN stands for a missing value (missing matches only missing). */
+function closeFlat(a: number, b: number, abs: number, rel: number): boolean {
+  if (a !== a || b !== b) return a !== a && b !== b;
+  return Math.abs(a - b) <= Math.max(abs, rel * Math.max(Math.abs(a), Math.abs(b))) + 1e-9;
+}
+
 function sameComposition(x: CheckRecord["components"], y: CheckRecord["components"], tolerance: number): boolean {
   if (x === y || x.length === 0 || y.length === 0) return true;
   const amounts = new Map<string, number>();
@@ -201,13 +207,22 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
   // Cell numbers stay small integers (kept in Int32Arrays so map keys are never boxed numbers).
   const pCell = new Int32Array(records.length);
   const vCell = new Int32Array(records.length);
+  // Process values in flat arrays (NaN for missing): the candidate loop reads these, not the
+  // record objects, so 100k records stay cache-friendly.
+  const P = new Float64Array(records.length);
+  const V = new Float64Array(records.length);
+  const H = new Float64Array(records.length);
+  const L = new Float64Array(records.length);
+  const D = new Float64Array(records.length);
+  const num = (x: number | null) => (x === null ? Number.NaN : x);
   // Records without P or v can only be exact duplicates, found by key.
   const byKey = new Map<string, number[]>();
   // Blocks: alloy and a coarse layer-thickness bucket (layers come in few values, so this splits
   // the work several ways); inside a block, a map from a small integer (P, v) cell number to records.
   const layerBucket = (t: number) => Math.floor((t + LAYER_OFFSET_UM) / LAYER_BUCKET_UM);
   const blockKey = (alloy: string, bucket: number | null) => `${alloy}|${bucket ?? "-"}`;
-  const blocks = new Map<string, { members: number[]; pMin: number; pMax: number; vMin: number; vMax: number; cells: Map<number, number[]> | null }>();
+  const blocks = new Map<string, { members: number[]; pMin: number; pMax: number; vMin: number; vMax: number; keys: Float64Array; order: Int32Array }>();
+  const none = { keys: new Float64Array(0), order: new Int32Array(0) };
   for (let i = 0; i < records.length; i++) {
     const r = records[i]!;
     const p = r.laserPowerW;
@@ -223,9 +238,14 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
     const vc = Math.floor(Math.log(v) / wV);
     pCell[i] = pc;
     vCell[i] = vc;
+    P[i] = p;
+    V[i] = v;
+    H[i] = num(r.hatchSpacingUm);
+    L[i] = num(r.layerThicknessUm);
+    D[i] = num(r.spotDiameterUm);
     const key = blockKey(r.alloyKey, r.layerThicknessUm === null ? null : layerBucket(r.layerThicknessUm));
     const g = blocks.get(key);
-    if (!g) blocks.set(key, { members: [i], pMin: pc, pMax: pc, vMin: vc, vMax: vc, cells: null });
+    if (!g) blocks.set(key, { members: [i], pMin: pc, pMax: pc, vMin: vc, vMax: vc, ...none });
     else {
       g.members.push(i);
       if (pc < g.pMin) g.pMin = pc;
@@ -237,15 +257,14 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
   for (const list of byKey.values()) {
     for (let x = 0; x < list.length; x++) for (let y = x + 1; y < list.length; y++) push(list[x]!, list[y]!, "exact");
   }
+  // Each block's records sorted by cell number: a row of the (P, v) grid is then one contiguous
+  // run of cell numbers, found by binary search, and its records sit next to each other.
   for (const g of blocks.values()) {
     const vSpan = g.vMax - g.vMin + 1;
-    g.cells = new Map();
-    for (const i of g.members) {
-      const c = (pCell[i]! - g.pMin) * vSpan + (vCell[i]! - g.vMin);
-      const list = g.cells.get(c);
-      if (list) list.push(i);
-      else g.cells.set(c, [i]);
-    }
+    const cellOf = (i: number) => (pCell[i]! - g.pMin) * vSpan + (vCell[i]! - g.vMin);
+    const sorted = [...g.members].sort((a, b) => cellOf(a) - cellOf(b) || a - b);
+    g.order = Int32Array.from(sorted);
+    g.keys = Float64Array.from(sorted, cellOf);
   }
 
   for (let i = 0; i < records.length; i++) {
@@ -264,21 +283,31 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
     for (let bucket = b0; bucket <= b1; bucket++) {
       const g = blocks.get(blockKey(r.alloyKey, layer === null ? null : bucket));
       if (!g) continue;
-      const cells = g.cells!;
+      const { keys, order } = g;
       const vSpan = g.vMax - g.vMin + 1;
       const p0 = Math.max(g.pMin, pLo > 0 ? Math.floor(Math.log(pLo) / wP) : g.pMin);
       const p1 = Math.min(g.pMax, Math.floor(Math.log(pHi) / wP));
       const v0 = Math.max(g.vMin, vLo > 0 ? Math.floor(Math.log(vLo) / wV) : g.vMin);
       const v1 = Math.min(g.vMax, Math.floor(Math.log(vHi) / wV));
       for (let pc = p0; pc <= p1; pc++) {
-        for (let vc = v0; vc <= v1; vc++) {
-          const list = cells.get((pc - g.pMin) * vSpan + (vc - g.vMin));
-          if (!list) continue;
-          for (const j of list) {
-            if (j >= i) continue;
-            const kind = classifyPair(r, records[j]!, t, keyOf);
-            if (kind) push(j, i, kind);
-          }
+        const from = (pc - g.pMin) * vSpan + (v0 - g.vMin);
+        const to = (pc - g.pMin) * vSpan + (v1 - g.vMin);
+        let lo = 0;
+        let hi = keys.length;
+        while (lo < hi) {
+          const mid = (lo + hi) >> 1;
+          if (keys[mid]! < from) lo = mid + 1;
+          else hi = mid;
+        }
+        for (let k = lo; k < keys.length && keys[k]! <= to; k++) {
+          const j = order[k]!;
+          if (j >= i) continue;
+          // Cheap screen on the flat arrays (the same tolerances as sameProcess); the full
+          // classification runs only for the few candidates that pass.
+          if (!closeFlat(P[i]!, P[j]!, t.powerAbsW, powerRel) || !closeFlat(V[i]!, V[j]!, 0, speedRel)) continue;
+          if (!closeFlat(H[i]!, H[j]!, t.hatchAbsUm, 0) || !closeFlat(L[i]!, L[j]!, t.layerAbsUm, 0) || !closeFlat(D[i]!, D[j]!, t.spotAbsUm, 0)) continue;
+          const kind = classifyPair(r, records[j]!, t, keyOf);
+          if (kind) push(j, i, kind);
         }
       }
     }
