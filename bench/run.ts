@@ -9,6 +9,7 @@ const SUITES: Record<string, () => Promise<BenchSuite>> = {
   meltpool: async () => (await import("./meltpool.bench")).meltpoolBench,
   checks: async () => (await import("./checks.bench")).checksBench,
   coverage: async () => (await import("./coverage.bench")).coverageBench,
+  load: async () => (await import("./load.bench")).loadBench,
 };
 
 function fmt(x: number): string {

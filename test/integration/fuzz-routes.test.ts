@@ -207,7 +207,7 @@ describe("every route handler under app/api", () => {
       test(`${method} ${route.pattern}: no 500, no partial write (${RUNS} inputs)`, async () => {
         const mod = (await import(route.file)) as Record<string, (req: NextRequest, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>>;
         const handler = mod[method]!;
-        const useCase = route.pattern === "/api/records" ? "createRecord" : route.pattern === "/api/sources" ? "createSource" : route.pattern.includes("imports/preview") || route.pattern.endsWith("imports/jobs") ? "startImportJob" : "";
+        const useCase = route.pattern === "/api/records" ? "createRecord" : route.pattern === "/api/sources" ? "createSource" : route.pattern.includes("imports/preview") || route.pattern.endsWith("imports/jobs") ? "startImportJob" : route.pattern.startsWith("/api/flags/") ? "resolveFlag" : "";
         await fc.assert(
           fc.asyncProperty(fc.array(PARAM_VALUES, { minLength: route.params.length, maxLength: route.params.length }), queryArb, bodyArb(exampleFor(useCase)), async (paramValues, query, body) => {
             const params = Object.fromEntries(route.params.map((p, i) => [p, paramValues[i]!]));
