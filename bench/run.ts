@@ -8,6 +8,7 @@ const SUITES: Record<string, () => Promise<BenchSuite>> = {
   import: async () => (await import("./import.bench")).importBench,
   meltpool: async () => (await import("./meltpool.bench")).meltpoolBench,
   checks: async () => (await import("./checks.bench")).checksBench,
+  export: async () => (await import("./export.bench")).exportBench,
   coverage: async () => (await import("./coverage.bench")).coverageBench,
   load: async () => (await import("./load.bench")).loadBench,
 };

@@ -11,6 +11,8 @@ const LINKS = [
   { href: "/imports", label: "Import" },
   { href: "/review", label: "Review" },
   { href: "/rules", label: "Rules" },
+  { href: "/coverage", label: "Coverage" },
+  { href: "/export", label: "Export" },
 ] as const;
 
 function isCurrent(pathname: string, href: string): boolean {

@@ -161,8 +161,8 @@ export async function createExport(input: unknown, actor: Actor, options: Create
       throw error;
     }
     if (options.outDir) {
-      mkdirSync(options.outDir, { recursive: true });
-      for (const f of files) writeFileSync(path.join(options.outDir, f.name), f.bytes);
+      mkdirSync(/* turbopackIgnore: true */ options.outDir, { recursive: true });
+      for (const f of files) writeFileSync(path.join(/* turbopackIgnore: true */ options.outDir, f.name), f.bytes);
     }
     const t3 = clock();
     const allEntries = [...entries, { name: "manifest.json", rows: null, bytes: files.at(-1)!.bytes.byteLength, sha256: fileHashes["manifest.json"]! }];

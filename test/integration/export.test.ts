@@ -133,8 +133,8 @@ describe("meltledger export", () => {
           continue;
         }
         real += 1;
-        expect(sourceSplit.get(r.source_id) ?? split).toBe(split);
-        sourceSplit.set(r.source_id, split);
+        expect(sourceSplit.get(r.source_id!) ?? split).toBe(split);
+        sourceSplit.set(r.source_id!, split);
       }
     }
     // nothing real is dropped: every accepted record has a label here (outcome given, density given)
