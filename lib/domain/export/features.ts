@@ -135,12 +135,31 @@ export function roundSig(x: number | null): number | null {
 }
 
 const MELTPOOL_NAMES = FEATURE_CATALOGUE.filter((d) => d.group === "meltpool").map((d) => d.name);
-const MARGIN_NAME: Partial<Record<CriterionName, string>> = {
-  lack_of_fusion_depth: "margin_lack_of_fusion_depth",
-  lack_of_fusion_overlap: "margin_lack_of_fusion_overlap",
-  balling_aspect: "margin_balling",
-  keyhole_aspect: "margin_keyhole_aspect",
-  keyhole_enthalpy: "margin_keyhole_enthalpy",
+const at = (name: string): number => {
+  const i = MELTPOOL_NAMES.indexOf(name);
+  if (i < 0) throw new RangeError(`features: no melt-pool feature ${name}`);
+  return i;
+};
+/** Positions of the melt-pool features in their group, resolved once. */
+const MP = {
+  width: at("meltpool_width_um"),
+  depth: at("meltpool_depth_um"),
+  length: at("meltpool_length_um"),
+  peak: at("meltpool_peak_temperature_k"),
+  enthalpy: at("normalized_enthalpy"),
+  widthToDepth: at("meltpool_width_to_depth"),
+  lengthToWidth: at("meltpool_length_to_width"),
+  hatchToWidth: at("hatch_to_width"),
+  depthToLayer: at("depth_to_layer"),
+  absorptivity: at("absorptivity"),
+  estimated: at("properties_estimated"),
+};
+const MARGIN_INDEX: Partial<Record<CriterionName, number>> = {
+  lack_of_fusion_depth: at("margin_lack_of_fusion_depth"),
+  lack_of_fusion_overlap: at("margin_lack_of_fusion_overlap"),
+  balling_aspect: at("margin_balling"),
+  keyhole_aspect: at("margin_keyhole_aspect"),
+  keyhole_enthalpy: at("margin_keyhole_enthalpy"),
 };
 
 /** Provenance of a row. */
@@ -200,7 +219,13 @@ export function createFeatureComputer(groups: readonly FeatureGroup[], compositi
       out.set(pool.subarray(hit, hit + width), at);
       return;
     }
-    const values = new Float64Array(width).fill(NaN);
+    if (used + width > pool.length) {
+      const bigger = new Float64Array(pool.length * 2);
+      bigger.set(pool);
+      pool = bigger;
+    }
+    const at0 = used;
+    pool.fill(NaN, at0, at0 + width);
     try {
       const a = analyzeMeltPool(
         { laserPowerW: p.laserPowerW, scanSpeedMmPerS: p.scanSpeedMmPerS, spotDiameterUm: p.spotDiameterUm, hatchSpacingUm: p.hatchSpacingUm, layerThicknessUm: p.layerThicknessUm, ambientTemperatureK: ambient, material: m },
@@ -208,38 +233,29 @@ export function createFeatureComputer(groups: readonly FeatureGroup[], compositi
       );
       const { widthUm: w, depthUm: d, lengthUm: l } = a.pool;
       const melted = a.pool.melted;
-      const named: Record<string, number> = {
-        meltpool_width_um: w,
-        meltpool_depth_um: d,
-        meltpool_length_um: l,
-        meltpool_peak_temperature_k: a.pool.peakTemperatureK,
-        normalized_enthalpy: a.normalizedEnthalpy,
-        meltpool_width_to_depth: melted ? ratio(w, d) : NaN,
-        meltpool_length_to_width: melted ? ratio(l, w) : NaN,
-        hatch_to_width: melted && p.hatchSpacingUm !== null ? ratio(p.hatchSpacingUm, w) : NaN,
-        depth_to_layer: p.layerThicknessUm !== null ? ratio(d, p.layerThicknessUm) : NaN,
-        absorptivity: m.absorptivity,
-        properties_estimated: ctx.propertiesEstimated ? 1 : 0,
-      };
+      const put = (j: number, v: number | null) => (pool[at0 + j] = num(roundSig(v)));
+      put(MP.width, w);
+      put(MP.depth, d);
+      put(MP.length, l);
+      put(MP.peak, a.pool.peakTemperatureK);
+      put(MP.enthalpy, a.normalizedEnthalpy);
+      put(MP.widthToDepth, melted ? ratio(w, d) : NaN);
+      put(MP.lengthToWidth, melted ? ratio(l, w) : NaN);
+      put(MP.hatchToWidth, melted && p.hatchSpacingUm !== null ? ratio(p.hatchSpacingUm, w) : NaN);
+      put(MP.depthToLayer, p.layerThicknessUm !== null ? ratio(d, p.layerThicknessUm) : NaN);
+      put(MP.absorptivity, m.absorptivity);
+      put(MP.estimated, ctx.propertiesEstimated ? 1 : 0);
       for (const c of a.criteria) {
-        const name = MARGIN_NAME[c.name];
-        if (name) named[name] = num(c.margin);
+        const j = MARGIN_INDEX[c.name];
+        if (j !== undefined) put(j, c.margin);
       }
-      MELTPOOL_NAMES.forEach((n, j) => (values[j] = num(roundSig(named[n] ?? null))));
     } catch (error) {
       if (!(error instanceof RangeError)) throw error;
     }
-    if (used + width > pool.length) {
-      const bigger = new Float64Array(pool.length * 2);
-      bigger.set(pool);
-      pool = bigger;
-    }
-    pool.set(values, used);
-    memo.set(key, used);
+    memo.set(key, at0);
     used += width;
-    out.set(values, at);
+    out.set(pool.subarray(at0, at0 + width), at);
   };
-
   const mixtureOf = (ctx: MaterialContext): Float64Array => {
     let row = mixtureRows.get(ctx.key);
     if (row) return row;
