@@ -1,0 +1,158 @@
+// Records from a figure: a PDF with a power–speed plot (linear power axis, log speed axis, red
+// squares for keyhole and blue circles for dense builds) is rendered by pdf.js in Node, the markers
+// are found from one clicked marker per colour, the axes are calibrated from their end ticks, and
+// the points are committed through the bulk insert; bad readings write nothing.
+import path from "node:path";
+import { createRequire } from "node:module";
+import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { sqlite } from "@/lib/db/connection";
+import { migrate } from "@/lib/db/migrate";
+import { detectMarkers, type RgbaImage } from "@/lib/domain/marker-detection";
+import { localActor, type Actor } from "@/lib/server/actor";
+import { commitFigureReading } from "@/lib/server/figures";
+import { createSource } from "@/lib/server/sources";
+import type { FigureReadingInput } from "@/lib/schemas/figure";
+import { sourceInput } from "../support/fixtures";
+import { inventedFigurePdf } from "../support/pdf";
+import { useTempDatabase } from "../support/temp-db";
+
+const tmp = useTempDatabase("figures");
+const figure = inventedFigurePdf();
+const SCALE = 2;
+let actor: Actor;
+let sourceId: number;
+let image: RgbaImage;
+let toPixel: (xPt: number, yPt: number) => { x: number; y: number };
+
+const count = (sql: string, ...args: unknown[]) => (sqlite().prepare(sql).get(...args) as { n: number }).n;
+
+beforeAll(async () => {
+  migrate(sqlite());
+  actor = await localActor();
+  const s = await createSource(sourceInput({ doi: "10.5555/figure.pdf.0001", title: "Process map of 316L in an invented study" }), actor);
+  if (!s.ok) throw new Error(s.error.message);
+  sourceId = s.data.id;
+
+  const pdfjs = await import("pdfjs-dist/legacy/build/pdf.mjs");
+  const fonts = path.join(path.dirname(createRequire(import.meta.url).resolve("pdfjs-dist/package.json")), "standard_fonts") + path.sep;
+  const doc = await pdfjs.getDocument({ data: new Uint8Array(figure.pdf), isEvalSupported: false, standardFontDataUrl: fonts }).promise;
+  const page = await doc.getPage(figure.page);
+  const viewport = page.getViewport({ scale: SCALE });
+  const factory = (doc as unknown as { canvasFactory: { create: (w: number, h: number) => { canvas: unknown; context: CanvasRenderingContext2D } } }).canvasFactory;
+  const width = Math.ceil(viewport.width);
+  const height = Math.ceil(viewport.height);
+  const { canvas, context } = factory.create(width, height);
+  await page.render({ canvasContext: context, canvas: canvas as HTMLCanvasElement, viewport }).promise;
+  const data = context.getImageData(0, 0, width, height);
+  image = { data: data.data, width, height };
+  toPixel = (xPt, yPt) => {
+    const [x, y] = viewport.convertToViewportPoint(xPt, yPt) as [number, number];
+    return { x, y };
+  };
+  await doc.destroy();
+});
+afterAll(async () => {
+  await tmp.cleanup();
+});
+
+function reading(points: FigureReadingInput["points"], overrides: Partial<FigureReadingInput> = {}): FigureReadingInput {
+  const [x0, x1] = figure.ticks.x;
+  const [y0, y1] = figure.ticks.y;
+  return {
+    sourceId,
+    page: figure.page,
+    figureLabel: "Fig. 3",
+    alloy: "316L",
+    axes: {
+      x: { field: "laserPower", unit: "W", scale: "linear", ticks: [{ pixel: toPixel(x0!.xPt, 0).x, value: x0!.value }, { pixel: toPixel(x1!.xPt, 0).x, value: x1!.value }] },
+      y: { field: "scanSpeed", unit: "mm/s", scale: "log", ticks: [{ pixel: toPixel(0, y0!.yPt).y, value: y0!.value }, { pixel: toPixel(0, y1!.yPt).y, value: y1!.value }] },
+    },
+    fixed: { hatchSpacing: { value: "100", unit: "µm" }, layerThickness: { value: "30", unit: "µm" } },
+    kinds: [
+      { id: "red", outcome: "keyhole", legend: "red squares" },
+      { id: "blue", outcome: "dense", legend: "blue circles" },
+    ],
+    points,
+    ...overrides,
+  };
+}
+
+function detectedPoints(): FigureReadingInput["points"] {
+  const out: FigureReadingInput["points"] = [];
+  for (const [kind, outcome] of [["red", "keyhole"], ["blue", "dense"]] as const) {
+    const seed = figure.points.find((p) => p.outcome === outcome)!;
+    const x = figure.frame.left + ((seed.laserPowerW - 100) / 300) * (figure.frame.right - figure.frame.left);
+    const y = figure.frame.bottom + ((Math.log10(seed.scanSpeedMmPerS) - 2) / 2) * (figure.frame.top - figure.frame.bottom);
+    const found = detectMarkers(image, toPixel(x, y));
+    if (!found.ok) throw new Error(found.message);
+    for (const m of found.markers) out.push({ pixel: { x: m.x, y: m.y }, kind, pixelUncertaintyPx: 1 });
+  }
+  return out;
+}
+
+describe("reading a rendered figure", () => {
+  test("every plotted point is found from one clicked marker per colour, within 1 % of each axis range, with its outcome", async () => {
+    const points = detectedPoints();
+    expect(points).toHaveLength(figure.points.length);
+    const before = count("SELECT COUNT(*) AS n FROM BuildRecord");
+    const r = await commitFigureReading(reading(points), actor);
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.data.ids).toHaveLength(points.length);
+    expect(count("SELECT COUNT(*) AS n FROM BuildRecord") - before).toBe(points.length);
+    const rows = sqlite()
+      .prepare(`SELECT laserPowerW, scanSpeedMmPerS, hatchSpacingUm, layerThicknessUm, outcome, locationPage, locationLabel FROM BuildRecord WHERE id IN (${r.data.ids.join(",")})`)
+      .all() as { laserPowerW: number; scanSpeedMmPerS: number; hatchSpacingUm: number; layerThicknessUm: number; outcome: string; locationPage: number; locationLabel: string }[];
+    const matched = new Set<number>();
+    for (const truth of figure.points) {
+      // nearest record in axis-range units: linear power over 300 W, log speed over 2 decades
+      const errors = rows.map((row) => ({ row, dp: Math.abs(row.laserPowerW - truth.laserPowerW) / 300, dv: Math.abs(Math.log10(row.scanSpeedMmPerS) - Math.log10(truth.scanSpeedMmPerS)) / 2 }));
+      errors.sort((a, b) => Math.max(a.dp, a.dv) - Math.max(b.dp, b.dv));
+      const best = errors[0]!;
+      expect(best.dp).toBeLessThanOrEqual(0.01);
+      expect(best.dv).toBeLessThanOrEqual(0.01);
+      expect(best.row.outcome).toBe(truth.outcome);
+      matched.add(rows.indexOf(best.row));
+    }
+    expect(matched.size).toBe(figure.points.length);
+    for (const row of rows) {
+      expect(row.locationPage).toBe(2);
+      expect(row.locationLabel).toMatch(/^Fig\. 3 · px \(\d+, \d+\) · ±[\d.]+ W, ±[\d.]+ mm\/s$/);
+      expect(row.hatchSpacingUm).toBe(100);
+      expect(row.layerThicknessUm).toBe(30);
+    }
+  });
+
+  test("the committed records ran through the checks like any record", async () => {
+    // every record gets a quality score from the checks after the bulk write
+    expect(count(`SELECT COUNT(*) AS n FROM BuildRecord WHERE locationLabel LIKE 'Fig. 3 ·%' AND qualityScore IS NULL`)).toBe(0);
+  });
+
+  test("a dry run shows the records and writes nothing", async () => {
+    const before = count("SELECT COUNT(*) AS n FROM BuildRecord");
+    const r = await commitFigureReading({ ...reading(detectedPoints().slice(0, 3)), dryRun: true }, actor);
+    expect(r.ok && r.data.records.length).toBe(3);
+    expect(r.ok && r.data.ids).toEqual([]);
+    expect(count("SELECT COUNT(*) AS n FROM BuildRecord")).toBe(before);
+  });
+});
+
+describe("bad readings write nothing and say why", () => {
+  const one = () => detectedPoints().slice(0, 2);
+  test.each([
+    ["axes marked with equal values", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, x: { ...r.axes.x, ticks: [r.axes.x.ticks[0], { ...r.axes.x.ticks[1], value: r.axes.x.ticks[0].value }] as const } } }), /same value/],
+    ["a log axis with a non-positive value", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, y: { ...r.axes.y, ticks: [{ ...r.axes.y.ticks[0], value: 0 }, r.axes.y.ticks[1]] as const } } }), /logarithmic, so both marked values must be greater than 0/],
+    ["a point outside the marked axes", (r: FigureReadingInput) => ({ ...r, points: [...r.points, { pixel: { x: 5, y: 5 }, kind: "red" }] }), /outside the marked/],
+    ["a unit that is not the axis quantity's", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, x: { ...r.axes.x, unit: "mm/s" } } }), /rows? have problems|would not make valid records|points would not/],
+    ["an unknown source", (r: FigureReadingInput) => ({ ...r, sourceId: 99_999 }), /Source 99999 does not exist/],
+  ])("%s", async (_name, change, message) => {
+    const before = count("SELECT COUNT(*) AS n FROM BuildRecord");
+    const r = await commitFigureReading(change(reading(one())), actor);
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.error.code).toBe("invalid_input");
+      expect(r.error.message).toMatch(message);
+    }
+    expect(count("SELECT COUNT(*) AS n FROM BuildRecord")).toBe(before);
+  });
+});
