@@ -76,6 +76,13 @@ describe("chooseScale and niceAxis", () => {
     expect(niceAxis(lo, hi, bins, scale)).toEqual(spec);
   });
 
+  test("a span lost in rounding (1.4e-14 W on 156 W) is treated as one value and still contained", () => {
+    const lo = 156.3633358260175;
+    const a = niceAxis(lo, lo + 1.4210854715202004e-14, 1, "linear");
+    expect(a.min).toBeLessThanOrEqual(lo);
+    expect(a.max).toBeGreaterThanOrEqual(lo + 1.4210854715202004e-14);
+  });
+
   test("a nice axis always contains the data", () => {
     fc.assert(
       fc.property(fc.double({ min: 0.5, max: 5000, noNaN: true }), fc.double({ min: 0, max: 5000, noNaN: true }), fc.integer({ min: 1, max: 40 }), fc.constantFrom("linear" as const, "log" as const), (lo, span, bins, scale) => {

@@ -116,7 +116,8 @@ export function niceAxis(dataMin: number, dataMax: number, bins: number, scale: 
   }
   let lo = dataMin;
   let hi = dataMax;
-  if (lo === hi) {
+  // A span below a billionth of the values is one value: steps that small drown in rounding.
+  if (hi - lo <= Math.abs(lo) * 1e-9) {
     const pad = Math.abs(lo) * 0.05 || 1;
     lo -= pad;
     hi += pad;
@@ -124,8 +125,10 @@ export function niceAxis(dataMin: number, dataMax: number, bins: number, scale: 
   const step = niceStep((hi - lo) / bins);
   let min = clean(Math.floor(lo / step + 1e-9) * step);
   if (min > lo) min = clean(min - step);
+  if (min > lo) min = lo; // last resort: containing the data matters more than a round edge
   let top = clean(Math.ceil(hi / step - 1e-9) * step);
   if (top < hi) top = clean(top + step);
+  if (top < hi) top = hi;
   const count = Math.max(1, Math.round((top - min) / step));
   return { min, max: top, bins: count, scale };
 }

@@ -10,22 +10,28 @@ export interface Histogram {
   scale: AxisScale;
   /** Values that are missing (null or NaN) or not positive on a log axis. */
   missing: number;
+  /** Values outside the range asked for (implausible ones, say), not binned. */
+  outside: number;
 }
 
 /**
  * A histogram over the range of the values, with about `bins` bins; log bins when the values span
- * a decade or more (unless a scale is given). Null when no value is usable.
+ * a decade or more (unless a scale is given). With a `range`, values outside it are counted as
+ * `outside` and left out of the bins and of the axis. Null when no value is usable.
  *
  * @example
- * histogram([30, 30, 40, 60], 3); // { edges: [30, 40, 50, 60], counts: [2, 1, 1], scale: "linear", missing: 0 }
+ * histogram([30, 30, 40, 60], 3); // { edges: [30, 40, 50, 60], counts: [2, 1, 1], scale: "linear", missing: 0, outside: 0 }
+ * histogram([0.07, 75, 95], 2, undefined, { min: 20, max: 300 }).outside; // 1
  */
-export function histogram(values: ArrayLike<number | null>, bins = 20, scale?: AxisScale): Histogram | null {
+export function histogram(values: ArrayLike<number | null>, bins = 20, scale?: AxisScale, range?: { min: number; max: number }): Histogram | null {
+  const lo = range?.min ?? -Infinity;
+  const hi = range?.max ?? Infinity;
   let min = Infinity;
   let max = -Infinity;
   let positiveMin = Infinity;
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
-    if (typeof v !== "number" || !Number.isFinite(v)) continue;
+    if (typeof v !== "number" || !Number.isFinite(v) || v < lo || v > hi) continue;
     if (v < min) min = v;
     if (v > max) max = v;
     if (v > 0 && v < positiveMin) positiveMin = v;
@@ -36,13 +42,18 @@ export function histogram(values: ArrayLike<number | null>, bins = 20, scale?: A
   const edges = axisEdges(niceAxis(chosen === "log" ? positiveMin : min, max, bins, chosen));
   const counts = new Array<number>(edges.length - 1).fill(0);
   let missing = 0;
+  let outside = 0;
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
+    if (typeof v === "number" && Number.isFinite(v) && (v < lo || v > hi)) {
+      outside++;
+      continue;
+    }
     const b = typeof v === "number" ? binIndex(edges, v) : -1;
     if (b < 0) missing++;
     else counts[b]! += 1;
   }
-  return { edges, counts, scale: chosen, missing };
+  return { edges, counts, scale: chosen, missing, outside };
 }
 
 /**

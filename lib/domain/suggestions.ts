@@ -143,7 +143,7 @@ const unscaled = (x: number, scale: AxisScale) => (scale === "log" ? Math.exp(x)
 
 function fmt(x: number): string {
   const r = Math.round(x);
-  return Math.abs(x - r) < 1e-9 ? String(r) : x.toPrecision(3);
+  return Math.abs(x - r) < 1e-9 ? String(r) : String(Number(x.toPrecision(4)));
 }
 
 /**
@@ -311,7 +311,6 @@ export function suggestExperiments(input: SuggestionInput, records: RecordColumn
     const powerRangeW: [number, number] = [powerEdgesW[s.c.i]!, powerEdgesW[s.c.i + 1]!];
     const speedRangeMmPerS: [number, number] = [speedEdgesMmPerS[s.c.j]!, speedEdgesMmPerS[s.c.j + 1]!];
     const ev = energyDensities({ laserPowerW: s.laserPowerW, scanSpeedMmPerS: s.scanSpeedMmPerS, hatchSpacingUm: pl.hatchSpacingUm, layerThicknessUm: pl.layerThicknessUm }).volumetricJPerMm3!;
-    const within = s.verdict.fired.length ? `; ${s.verdict.fired.join(", ")} past threshold but within the window's margin` : "";
     const sameCell = chosen.filter((o) => o.c === s.c).length - 1;
     const others = sameCell > 0 ? ` (with ${sameCell} other suggestion(s) in the same cell)` : "";
     const why = idx === 0 ? "it is among the thinnest cells" : "among the thinnest cells left it is the farthest from the suggestions chosen before it";
@@ -327,7 +326,7 @@ export function suggestExperiments(input: SuggestionInput, records: RecordColumn
       cell: { powerIndex: s.c.i, speedIndex: s.c.j, powerRangeW, speedRangeMmPerS, records: s.c.records },
       reason:
         `Cell ${fmt(powerRangeW[0])}–${fmt(powerRangeW[1])} W × ${fmt(speedRangeMmPerS[0])}–${fmt(speedRangeMmPerS[1])} mm/s at h ${fmt(pl.hatchSpacingUm)} µm, t ${fmt(pl.layerThicknessUm)} µm ` +
-        `holds ${s.c.records} record(s), fewer than k = ${input.k}, and lies inside the predicted window (${s.verdict.regime}${within}); ` +
+        `holds ${s.c.records} record(s), fewer than k = ${input.k}, and lies inside the predicted window (${s.verdict.regime}); ` +
         `${why}${others}.`,
     };
   });

@@ -5,6 +5,7 @@
  * sample of points for the scatter plot.
  */
 import { resolveAlloyProperties } from "../domain/alloy-properties";
+import { settingOf } from "../domain/check-settings";
 import { resolveAlloy } from "../domain/alloys";
 import {
   axisEdges,
@@ -28,11 +29,12 @@ import { assessPoint, windowBoundaries, windowSettingsFromChecks, type WindowBou
 import { loadPropertyOverrides } from "../db/check-inputs";
 import { sqlite } from "../db/connection";
 import { selectCoveragePoints, sourceTitles, type SelectionColumns } from "../db/coverage";
+import { distinctAlloys } from "../db/records";
 import { coverageQuerySchema, type CoverageQuery, type RangeFilter } from "../schemas/coverage";
 import { currentCheckSettingsSync } from "./check-settings";
 import { DEFAULT_AMBIENT_TEMPERATURE_K } from "./meltpool";
 import { sourceOptionLabel } from "./records-facets";
-import { guard, invalid, ok, type Result } from "./result";
+import { guard, invalid, ok, type AppError, type Result } from "./result";
 
 /** Where the hatch, layer or spot of the window plane came from. */
 export type PlaneValueBasis = "chosen" | "filter" | "median of the selection" | "default";
@@ -251,11 +253,15 @@ export async function getCoverage(input: unknown): Promise<Result<CoverageReport
     const powerAxis = axisFor(q.power, columns.laserPowerW, q.powerBins, q.powerScale, PLAUSIBLE_RANGES.laserPower);
     const speedAxis = axisFor(q.speed, columns.scanSpeedMmPerS, q.speedBins, q.speedScale, PLAUSIBLE_RANGES.scanSpeed);
     const outcomes = OUTCOMES.filter((o) => columns.outcome.includes(o));
+    // Histograms over the plausible ranges of the check settings: a unit slip (a hatch of 0.07 in a
+    // µm column) is counted as outside instead of stretching the axis over four decades.
+    const settings = currentCheckSettingsSync(sqlite());
+    const plausible = (key: string) => ({ min: settingOf(settings.values, `${key}.min`), max: settingOf(settings.values, `${key}.max`) });
     const histograms = {
-      hatchSpacingUm: histogram(columns.hatchSpacingUm, 20),
-      layerThicknessUm: histogram(columns.layerThicknessUm, 20),
-      spotDiameterUm: histogram(columns.spotDiameterUm, 20),
-      volumetricEnergyJMm3: histogram(columns.volumetricEnergyJMm3, 24),
+      hatchSpacingUm: histogram(columns.hatchSpacingUm, 20, undefined, plausible("range.hatchSpacing")),
+      layerThicknessUm: histogram(columns.layerThicknessUm, 20, undefined, plausible("range.layerThickness")),
+      spotDiameterUm: histogram(columns.spotDiameterUm, 20, undefined, plausible("range.spotDiameter")),
+      volumetricEnergyJMm3: histogram(columns.volumetricEnergyJMm3, 24, undefined, plausible("energy.volumetric")),
     };
     const order = new Map<string, number>(OUTCOMES.map((o, i) => [o, i]));
     const byOutcome = tally(columns.outcome)
@@ -376,4 +382,23 @@ export function coverageJson(r: CoverageReport) {
       : null,
     window_unavailable: r.windowUnavailable,
   };
+}
+
+export interface CoveragePage {
+  /** Alloy keys present in the collection, for the alloy filter. */
+  alloys: string[];
+  report: CoverageReport | null;
+  /** Why the filters in the address bar were refused (shown beside them). */
+  queryError: AppError | null;
+}
+
+/** What the coverage page needs on first render: the alloy choices and the report for the address bar's filters. */
+export async function getCoveragePage(input: unknown): Promise<Result<CoveragePage>> {
+  return guard(async (): Promise<Result<CoveragePage>> => {
+    const alloys = distinctAlloys();
+    const report = await getCoverage(input);
+    if (report.ok) return ok({ alloys, report: report.data, queryError: null });
+    if (report.error.code === "invalid_input") return ok({ alloys, report: null, queryError: report.error });
+    return report;
+  });
 }
