@@ -2,8 +2,6 @@
 // squares for keyhole and blue circles for dense builds) is rendered by pdf.js in Node, the markers
 // are found from one clicked marker per colour, the axes are calibrated from their end ticks, and
 // the points are committed through the bulk insert; bad readings write nothing.
-import path from "node:path";
-import { createRequire } from "node:module";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { sqlite } from "@/lib/db/connection";
 import { migrate } from "@/lib/db/migrate";
@@ -14,6 +12,7 @@ import { createSource } from "@/lib/server/sources";
 import type { FigureReadingInput } from "@/lib/schemas/figure";
 import { sourceInput } from "../support/fixtures";
 import { inventedFigurePdf } from "../support/pdf";
+import { renderPdfPage } from "../support/pdf-render";
 import { useTempDatabase } from "../support/temp-db";
 
 const tmp = useTempDatabase("figures");
@@ -33,23 +32,9 @@ beforeAll(async () => {
   if (!s.ok) throw new Error(s.error.message);
   sourceId = s.data.id;
 
-  const pdfjs = await import("pdfjs-dist/legacy/build/pdf.mjs");
-  const fonts = path.join(path.dirname(createRequire(import.meta.url).resolve("pdfjs-dist/package.json")), "standard_fonts") + path.sep;
-  const doc = await pdfjs.getDocument({ data: new Uint8Array(figure.pdf), isEvalSupported: false, standardFontDataUrl: fonts }).promise;
-  const page = await doc.getPage(figure.page);
-  const viewport = page.getViewport({ scale: SCALE });
-  const factory = (doc as unknown as { canvasFactory: { create: (w: number, h: number) => { canvas: unknown; context: CanvasRenderingContext2D } } }).canvasFactory;
-  const width = Math.ceil(viewport.width);
-  const height = Math.ceil(viewport.height);
-  const { canvas, context } = factory.create(width, height);
-  await page.render({ canvasContext: context, canvas: canvas as HTMLCanvasElement, viewport }).promise;
-  const data = context.getImageData(0, 0, width, height);
-  image = { data: data.data, width, height };
-  toPixel = (xPt, yPt) => {
-    const [x, y] = viewport.convertToViewportPoint(xPt, yPt) as [number, number];
-    return { x, y };
-  };
-  await doc.destroy();
+  const rendered = await renderPdfPage(figure.pdf, figure.page, SCALE);
+  image = { data: rendered.data, width: rendered.width, height: rendered.height };
+  toPixel = rendered.toPixel;
 });
 afterAll(async () => {
   await tmp.cleanup();
