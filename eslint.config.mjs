@@ -45,7 +45,16 @@ export default tseslint.config(
   },
   {
     files: ["app/**/*.ts", "app/**/*.tsx"],
-    rules: restrict(["**/lib/db/**", "@/lib/db/*", "**/generated/**", "@prisma/*", "better-sqlite3"], "Routes call lib/server; only lib/server, seed and the CLI reach the database."),
+    rules: {
+      "no-restricted-imports": [
+        "error",
+        {
+          patterns: [{ group: ["**/lib/db/**", "@/lib/db/*", "**/generated/**", "@prisma/*", "better-sqlite3"], message: "Routes call lib/server; only lib/server, seed and the CLI reach the database." }],
+          // the actor of a request comes from its session (or local mode): app/_lib/actor.ts
+          paths: [{ name: "@/lib/server/actor", importNames: ["localActor", "cliActor"], message: "Routes and actions get their actor with requestActor(request) or actionActor() from app/_lib/actor.ts." }],
+        },
+      ],
+    },
   },
   {
     files: ["**/*.mjs", "bin/**", "scripts/**"],

@@ -1,6 +1,8 @@
 // Uploads at the route edge (not a PDF, too large, hostile names), path traversal, and the
 // security headers every response carries.
 import path from "node:path";
+import fc from "fast-check";
+import { parse } from "csv-parse/sync";
 import { NextRequest } from "next/server";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { sqlite } from "@/lib/db/connection";
@@ -10,6 +12,8 @@ import { createSource } from "@/lib/server/sources";
 import { sourceInput } from "../support/fixtures";
 import { inventedPaperPdf } from "../support/pdf";
 import { useTempDatabase } from "../support/temp-db";
+import { writeCsv } from "@/lib/domain/export/csv-writer";
+import { HOSTILE_STRINGS } from "../support/fuzz-inputs";
 import type { NextConfig } from "next";
 
 const tmp = useTempDatabase("security");
@@ -98,5 +102,28 @@ describe("security headers", () => {
     expect(directives["object-src"]).toEqual(["'none'"]);
     expect(directives["script-src"]).not.toContain("*");
     expect(directives["connect-src"]).toContain("'self'");
+  });
+});
+
+describe("exports escape formula cells", () => {
+  const text = fc.oneof(fc.constantFrom(...HOSTILE_STRINGS), fc.string(), fc.constantFrom("=1+1", "+1", "-1", "@A1", "\t=1", "\r=1", "=cmd|' /C calc'!A0"));
+  const FORMULA = /^[=+\-@\t\r]/;
+
+  test("a training-set CSV read back has no text cell a spreadsheet would run, and keeps every value", () => {
+    fc.assert(
+      fc.property(fc.array(fc.tuple(text, text, fc.double({ noNaN: true, noDefaultInfinity: true })), { minLength: 1, maxLength: 8 }), (rows) => {
+        const csv = writeCsv([{ name: "alloy", kind: "text" }, { name: "outcome_text", kind: "text" }, { name: "laser_power_w", kind: "number" }], rows);
+        const parsed = parse(csv, { relax_quotes: false }) as string[][];
+        expect(parsed).toHaveLength(rows.length + 1);
+        parsed.slice(1).forEach((cells, i) => {
+          for (const c of [0, 1]) {
+            expect(FORMULA.test(cells[c]!)).toBe(false);
+            // the guard adds one quote and nothing else
+            expect(cells[c] === rows[i]![c] || cells[c] === `'${rows[i]![c]}`).toBe(true);
+          }
+        });
+      }),
+      { numRuns: 500 },
+    );
   });
 });
