@@ -252,7 +252,7 @@ function Summary({ report: r }: { report: CoverageReport }) {
       <div className="stat">
         <span className="stat__value" data-testid="coverage-score">{pct(r.score.share)}</span>
         <span className="stat__label">
-          coverage score: {formatNumber(r.score.covered, 0)} of {formatNumber(r.score.windowCells, 0)} {w ? "window cells" : "cells (no window without one alloy)"} hold ≥ {r.score.k} records
+          coverage score: {formatNumber(r.score.covered, 0)} of {formatNumber(r.score.windowCells, 0)} {w ? "window cells" : "grid cells"} hold ≥ {r.score.k} records{w ? "" : " (no window: choose one alloy)"}
         </span>
       </div>
       <div className="coverage-summary__window">
