@@ -339,6 +339,11 @@ export function PdfPane({ documents, sourceId, sourceDoi, onPageChange, onTable 
         <Button size="small" variant={boxMode ? "primary" : "secondary"} aria-pressed={boxMode} onClick={() => { setBoxMode((b) => !b); setDrag(null); }} disabled={!doc}>
           {boxMode ? "Drawing: drag around a table" : "Read a table"}
         </Button>
+        {sourceId && doc ? (
+          <a className="button button--small" href={`/figures?sourceId=${sourceId}&document=${current.id}&page=${pageNumber}`}>
+            Read a figure
+          </a>
+        ) : null}
       </div>
 
       {foundDoi && sourceId && foundDoi !== sourceDoi ? (

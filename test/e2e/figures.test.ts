@@ -114,4 +114,45 @@ describe("records from a figure", () => {
     }
     writeFileSync(path.join(os.tmpdir(), "meltledger-figures.json"), JSON.stringify(read.slice(0, 3)));
   });
+
+  test("from the PDF pane: the paper's page opens in the reader, markers are found and a point dragged", async () => {
+    const form = new FormData();
+    form.append("file", new Blob([new Uint8Array(figure.pdf)], { type: "application/pdf" }), "figure-paper.pdf");
+    const res = await fetch(`${app.baseUrl}/api/sources/${sourceId}/documents`, { method: "POST", body: form });
+    expect(res.status).toBe(201);
+    await page.goto(`${app.baseUrl}/records/new?sourceId=${sourceId}`);
+    await page.locator(".pdf-pane__canvas").waitFor();
+    await page.getByText("of 2").waitFor();
+    await page.getByRole("button", { name: "Next page" }).click();
+    await page.locator('.pdf-pane__page-layers[data-page="2"]').waitFor();
+    await page.getByRole("link", { name: "Read a figure" }).click();
+    await page.waitForURL(/\/figures\?sourceId=\d+&document=\d+&page=2/);
+    await page.getByTestId("figure-overlay").waitFor({ timeout: 20_000 });
+    // the reader renders the page at twice its point size
+    const size = await page.locator(".figure-reader__canvas").evaluate((c: HTMLCanvasElement) => ({ width: c.width, height: c.height }));
+    expect(size).toEqual({ width: 595 * 2, height: 842 * 2 });
+    const box = (await page.getByTestId("figure-overlay").boundingBox())!;
+    const toScreen = (xPt: number, yPt: number) => ({ x: box.x + (xPt * 2 * box.width) / size.width, y: box.y + ((figure.pageHeightPt - yPt) * 2 * box.height) / size.height });
+    const dense = figure.points.filter((p) => p.outcome === "dense");
+    const seed = dense[0]!;
+    const seedPt = { x: figure.frame.left + ((seed.laserPowerW - 100) / 300) * (figure.frame.right - figure.frame.left), y: figure.frame.bottom + ((Math.log10(seed.scanSpeedMmPerS) - 2) / 2) * (figure.frame.top - figure.frame.bottom) };
+    await page.getByRole("button", { name: "Find markers like a clicked one" }).click();
+    const at = toScreen(seedPt.x, seedPt.y);
+    await page.mouse.click(at.x, at.y);
+    await page.getByText(`Found ${dense.length} markers like the one clicked (${dense.length} new)`).waitFor();
+    // drag the first point 20 px to the right (in image pixels)
+    const first = page.locator('circle[data-point="1"]');
+    const before = await page.getByRole("row").nth(1).getByRole("cell").nth(2).innerText();
+    const c = (await first.boundingBox())!;
+    await page.mouse.move(c.x + c.width / 2, c.y + c.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(c.x + c.width / 2 + (20 * box.width) / size.width, c.y + c.height / 2, { steps: 5 });
+    await page.mouse.up();
+    const [bx, by] = before.split(",").map((v) => Number(v.trim()));
+    const moved = async () => {
+      const [ax, ay] = (await page.getByRole("row").nth(1).getByRole("cell").nth(2).innerText()).split(",").map((v) => Number(v.trim()));
+      return Math.abs(ax! - bx! - 20) <= 1 && Math.abs(ay! - by!) <= 1;
+    };
+    await expect.poll(moved).toBe(true);
+  });
 });

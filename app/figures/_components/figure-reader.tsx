@@ -57,11 +57,23 @@ const numberOf = (s: string) => (s.trim() === "" ? Number.NaN : Number(s.replace
  * every point is drawn over the figure, can be dragged or removed, and is previewed and committed
  * through the same checks as any record. Nothing is written before "Write records".
  */
-export function FigureReader({ sources, initialSourceId }: { sources: readonly FigureSourceOption[]; initialSourceId: number | null }) {
+export function FigureReader({
+  sources,
+  initialSourceId,
+  initialDocumentId = null,
+  initialPage = null,
+}: {
+  sources: readonly FigureSourceOption[];
+  initialSourceId: number | null;
+  /** From the PDF pane's "Read a figure": the paper and page to show at once. */
+  initialDocumentId?: number | null;
+  initialPage?: number | null;
+}) {
   const [sourceId, setSourceId] = useState<number | null>(initialSourceId);
   const [documents, setDocuments] = useState<PdfDocumentRef[]>([]);
   const [documentId, setDocumentId] = useState<number | null>(null);
-  const [pageInput, setPageInput] = useState("1");
+  const [pageInput, setPageInput] = useState(String(initialPage ?? 1));
+  const [autoShow, setAutoShow] = useState(initialDocumentId !== null);
   const [page, setPage] = useState<number | null>(null);
   const [imageName, setImageName] = useState<string | null>(null);
   const [size, setSize] = useState<{ width: number; height: number } | null>(null);
@@ -93,13 +105,20 @@ export function FigureReader({ sources, initialSourceId }: { sources: readonly F
       .then((b) => {
         if (cancelled) return;
         setDocuments(b.documents);
-        setDocumentId(b.documents[0]?.id ?? null);
+        setDocumentId(b.documents.find((d) => d.id === initialDocumentId)?.id ?? b.documents[0]?.id ?? null);
       })
       .catch(() => undefined);
     return () => {
       cancelled = true;
     };
-  }, [sourceId]);
+  }, [sourceId, initialDocumentId]);
+
+  useEffect(() => {
+    if (!autoShow || documentId === null || documentId !== initialDocumentId) return;
+    setAutoShow(false);
+    void showPdfPage();
+    // showPdfPage reads the current document and page input; it runs once, for the link's page
+  }, [autoShow, documentId, initialDocumentId]);
 
   function resetReading(width: number, height: number) {
     setSize({ width, height });
