@@ -79,7 +79,10 @@ export const SESSION_COOKIE = "meltledger_session";
 /** What the auth check reads from a request: the same from a route's Request, next/headers or the proxy. */
 export interface RequestFacts {
   method: string;
+  /** The Host the client named (X-Forwarded-Host when a proxy set one, else Host). */
   host: string | null;
+  /** The Host header itself when X-Forwarded-Host was also given (a browser cannot forge Host, it can add X-Forwarded-Host). */
+  rawHost?: string | null;
   origin: string | null;
   forwardedFor: string | null;
   forwardedProto: string | null;
@@ -103,7 +106,8 @@ export function cookieValue(cookieHeader: string | null, name: string): string |
 
 /** The facts of a request from its headers (and URL, for a Request built without a Host header). */
 export function requestFactsOf(headers: HeaderSource, options: { method?: string; url?: string } = {}): RequestFacts {
-  let host = headers.get("x-forwarded-host") ?? headers.get("host");
+  const rawHost = headers.get("host");
+  let host = headers.get("x-forwarded-host") ?? rawHost;
   if (!host && options.url) {
     try {
       host = new URL(options.url).host;
@@ -114,6 +118,7 @@ export function requestFactsOf(headers: HeaderSource, options: { method?: string
   return {
     method: (options.method ?? "GET").toUpperCase(),
     host,
+    rawHost,
     origin: headers.get("origin"),
     forwardedFor: headers.get("x-forwarded-for"),
     forwardedProto: headers.get("x-forwarded-proto"),
@@ -141,7 +146,9 @@ function crossSite(facts: RequestFacts): AppError | null {
 /** In local mode only requests from this machine are served: Host and every forwarded address must be loopback. */
 function notLocal(facts: RequestFacts): AppError | null {
   const forwarded = (facts.forwardedFor ?? "").split(",").map((s) => s.trim()).filter(Boolean);
-  if (isLoopbackHost(facts.host) && forwarded.every(isLoopbackHost)) return null;
+  // both names must be loopback: a page on a rebound DNS name sends its own Host and may add X-Forwarded-Host
+  const hostsLocal = isLoopbackHost(facts.host) && (facts.rawHost == null || isLoopbackHost(facts.rawHost));
+  if (hostsLocal && forwarded.every(isLoopbackHost)) return null;
   return {
     code: "forbidden",
     message: "This server runs in local mode (one user, no login) and answers only requests from this machine. To share it, start it in team mode (MELTLEDGER_MODE=team, npm run start:team) with accounts.",

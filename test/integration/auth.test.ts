@@ -46,6 +46,8 @@ describe("local mode", () => {
     [{ host: "workbench.example" }],
     [{ forwardedFor: "203.0.113.7" }],
     [{ forwardedFor: "127.0.0.1, 198.51.100.2" }],
+    // a page on a DNS name rebound to 127.0.0.1 cannot hide its Host behind X-Forwarded-Host
+    [{ host: "127.0.0.1:3000", rawHost: "rebound.example:3000" }],
   ])("a request from elsewhere (%j) is refused", async (over) => {
     const r = await authenticate(facts(over));
     expect(!r.ok && r.error.code).toBe("forbidden");
@@ -195,4 +197,14 @@ describe("meltledger users", () => {
     const taken = await cli(["users", "add", "Teodor Vance", "--role", "admin"]);
     expect(taken.code).toBe(2);
   }, 60_000);
+});
+
+describe("request facts", () => {
+  test("X-Forwarded-Host is read, and the Host header is kept beside it for the local-mode check", async () => {
+    const { requestFactsOf } = await import("@/lib/server/auth");
+    const f = requestFactsOf(new Headers({ host: "rebound.example:3000", "x-forwarded-host": "127.0.0.1:3000" }));
+    expect(f).toMatchObject({ host: "127.0.0.1:3000", rawHost: "rebound.example:3000" });
+    const r = await authenticate(f);
+    expect(!r.ok && r.error.code).toBe("forbidden");
+  });
 });
