@@ -44,7 +44,6 @@ interface ApiError {
 }
 
 const KIND_COLOURS = ["#d81b60", "#1e63d6", "#2e7d32", "#ef6c00", "#6a1b9a"];
-const FIXED_FIELDS: FigureQuantityField[] = ["hatchSpacing", "layerThickness", "spotDiameter", "preheat"];
 
 const unitsOf = (f: FigureQuantityField) => unitOptions(RECORD_QUANTITY_FIELDS[f]);
 const labelOf = (f: FigureQuantityField) => quantityLabel(RECORD_QUANTITY_FIELDS[f]);
@@ -233,7 +232,8 @@ export function FigureReader({
       figureLabel,
       alloy,
       axes: { x: { field: x.field, unit: x.unit, scale: x.scale, ticks: input.x.ticks }, y: { field: y.field, unit: y.unit, scale: y.scale, ticks: input.y.ticks } },
-      fixed: Object.fromEntries(Object.entries(fixed).filter(([, v]) => v && v.value.trim() !== "")),
+      // a quantity moved onto an axis keeps no fixed value
+      fixed: Object.fromEntries(Object.entries(fixed).filter(([f, v]) => v && v.value.trim() !== "" && f !== x.field && f !== y.field)),
       kinds: kinds.map((k) => ({ id: k.id, outcome: k.outcome, legend: k.legend || outcomeLabel(k.outcome) })),
       // a detected centroid is placed to about a pixel; a click to about two (common practice, from memory)
       points: points.map((p) => ({ pixel: p.pixel, kind: p.kind, pixelUncertaintyPx: p.detected ? 1 : 2 })),
@@ -384,7 +384,7 @@ export function FigureReader({
             <span className="field__label">Alloy</span>
             <input className="input" aria-label="Alloy" value={alloy} onChange={(e) => setAlloy(e.target.value)} placeholder="316L" />
           </label>
-          {FIXED_FIELDS.map((f) => (
+          {FIGURE_QUANTITY_FIELDS.filter((f) => f !== x.field && f !== y.field).map((f) => (
             <label className="field" key={f}>
               <span className="field__label">
                 Fixed {labelOf(f)} <span className="field__optional">(optional)</span>
