@@ -8,7 +8,7 @@ const restrict = (patterns, message) => ({
 });
 
 export default tseslint.config(
-  { ignores: ["node_modules/**", ".next/**", "lib/generated/**", "data/**", "next-env.d.ts", "test-results/**"] },
+  { ignores: ["node_modules/**", ".next/**", ".next-*/**", "lib/generated/**", "data/**", "next-env.d.ts", "test-results/**"] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

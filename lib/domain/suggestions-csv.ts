@@ -36,7 +36,8 @@ export const SUGGESTION_CSV_COLUMNS = [
 export function csvCell(value: string | number): string {
   if (typeof value === "number") return Number.isFinite(value) ? String(value) : "";
   const guarded = /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-  return /[",\r\n]/.test(guarded) ? `"${guarded.replace(/"/g, '""')}"` : guarded;
+  // Leading or trailing white space is quoted too: readers that trim bare fields keep it then.
+  return /[",\r\n]|^\s|\s$/.test(guarded) ? `"${guarded.replace(/"/g, '""')}"` : guarded;
 }
 
 function commentLine(text: string): string {
