@@ -8,7 +8,7 @@ import type { FormState } from "../_components/form-result";
 
 /** Saves a new record (input in the record form's shape); on success opens its page. */
 export async function createRecordAction(input: unknown): Promise<FormState> {
-  const actor = await actionActor();
+  const actor = await actionActor(input);
   if (!actor.ok) return { error: actor.error };
   const result = await createRecord(input, actor.data);
   if (!result.ok) return { error: result.error };
@@ -18,7 +18,7 @@ export async function createRecordAction(input: unknown): Promise<FormState> {
 
 /** Saves an edit when nobody saved the record first; on success opens its page. */
 export async function updateRecordAction(input: unknown): Promise<FormState> {
-  const actor = await actionActor();
+  const actor = await actionActor(input);
   if (!actor.ok) return { error: actor.error };
   const result = await updateRecord(input, actor.data);
   if (!result.ok) return { error: result.error };

@@ -8,7 +8,7 @@ export type ReviewActionState = { ok: true; message: string } | { ok: false; err
 
 /** One action on one flag (waive, fix, reject, merge, distinct). */
 export async function flagActionAction(input: { flagId: number; version: number; recordVersion: number; action: string; reason: string; fix?: { field: string; value: string; unit: string } | null }): Promise<ReviewActionState> {
-  const actor = await actionActor();
+  const actor = await actionActor(input);
   if (!actor.ok) return { ok: false, error: actor.error };
   const r = await resolveFlag(input, actor.data);
   if (!r.ok) return { ok: false, error: r.error };
@@ -23,7 +23,7 @@ export async function flagActionAction(input: { flagId: number; version: number;
 
 /** Accepts a record (refused while an error flag of it is open). */
 export async function acceptRecordAction(input: { recordId: number; version: number }): Promise<ReviewActionState> {
-  const actor = await actionActor();
+  const actor = await actionActor(input);
   if (!actor.ok) return { ok: false, error: actor.error };
   const r = await acceptRecord(input, actor.data);
   if (!r.ok) return { ok: false, error: r.error };
@@ -32,7 +32,7 @@ export async function acceptRecordAction(input: { recordId: number; version: num
 
 /** The same action on the selected flags. */
 export async function bulkFlagAction(input: { items: { flagId: number; version: number }[]; action: string; reason: string }): Promise<ReviewActionState> {
-  const actor = await actionActor();
+  const actor = await actionActor(input);
   if (!actor.ok) return { ok: false, error: actor.error };
   const r = await resolveFlagsBulk(input, actor.data);
   if (!r.ok) return { ok: false, error: r.error };

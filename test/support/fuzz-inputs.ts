@@ -24,6 +24,8 @@ export const HOSTILE_STRINGS = [
   "${process.exit()}",
   "__proto__",
   "constructor",
+  "toString",
+  "valueOf",
   "NaN",
   "Infinity",
   "-Infinity",
