@@ -24,3 +24,23 @@ export function reportError(io: CliIo, error: { code: string; message: string; d
   }
   return error.code === "internal" ? 1 : 2;
 }
+
+export type ParsedCommand = { ok: true; values: Record<string, string | boolean | string[] | undefined>; json: boolean } | { ok: false; exitCode: number };
+
+/**
+ * The prelude every option-only command shares: parse the options, answer --help with the usage
+ * (exit 0), refuse stray positional arguments (exit 2), and read --json.
+ */
+export function parseCommand(argv: string[], options: NonNullable<ParseArgsConfig["options"]>, io: CliIo, usage: string): ParsedCommand {
+  const parsed = parseCli(argv, options, io, usage);
+  if (!parsed.ok) return { ok: false, exitCode: 2 };
+  if (parsed.values.help === true) {
+    io.stdout(`Usage: ${usage}\n`);
+    return { ok: false, exitCode: 0 };
+  }
+  if (parsed.positionals.length > 0) {
+    io.stderr(`Unexpected argument '${parsed.positionals[0]}'.\n\nUsage: ${usage}\n`);
+    return { ok: false, exitCode: 2 };
+  }
+  return { ok: true, values: parsed.values, json: parsed.values.json === true };
+}

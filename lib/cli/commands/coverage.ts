@@ -1,5 +1,5 @@
 import { coverageJson, getCoverage, type CoverageReport } from "../../server/coverage";
-import { parseCli, reportError } from "../args";
+import { parseCommand, reportError } from "../args";
 import type { CliCommand, CliIo } from "../types";
 
 const USAGE = `meltledger coverage [--alloy 316L] [--status accepted,needs_review] [--hatch 80-120um] [--layer 30um] [--spot 60-100um]
@@ -53,18 +53,10 @@ function printSummary(io: CliIo, r: CoverageReport): void {
 
 /** `meltledger coverage`: the count grid, sparse cells and coverage score of a selection. */
 export const coverage: CliCommand = async (argv, io) => {
-  const parsed = parseCli(argv, OPTIONS, io, USAGE);
-  if (!parsed.ok) return 2;
+  const parsed = parseCommand(argv, OPTIONS, io, USAGE);
+  if (!parsed.ok) return parsed.exitCode;
   const v = parsed.values as Record<string, string | boolean | undefined>;
-  if (v.help === true) {
-    io.stdout(`Usage: ${USAGE}\n`);
-    return 0;
-  }
-  if (parsed.positionals.length > 0) {
-    io.stderr(`Unexpected argument '${parsed.positionals[0]}'.\n\nUsage: ${USAGE}\n`);
-    return 2;
-  }
-  const json = v.json === true;
+  const json = parsed.json;
   const r = await getCoverage({
     alloy: v.alloy,
     status: v.status,

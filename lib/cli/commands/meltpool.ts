@@ -1,5 +1,5 @@
 import { computeMeltpool, type MeltpoolReport } from "../../server/meltpool";
-import { parseCli, reportError } from "../args";
+import { parseCommand, reportError } from "../args";
 import type { CliCommand, CliIo } from "../types";
 
 const USAGE = `meltledger meltpool --power 200W --speed 800mm/s --spot 80um [--alloy 316L]
@@ -56,18 +56,10 @@ function printTable(io: CliIo, r: MeltpoolReport): void {
 
 /** `meltledger meltpool`: Eagar–Tsai melt pool, criteria and regime for one parameter set. */
 export const meltpool: CliCommand = async (argv, io) => {
-  const parsed = parseCli(argv, OPTIONS, io, USAGE);
-  if (!parsed.ok) return 2;
+  const parsed = parseCommand(argv, OPTIONS, io, USAGE);
+  if (!parsed.ok) return parsed.exitCode;
   const v = parsed.values;
-  if (v.help === true) {
-    io.stdout(`Usage: ${USAGE}\n`);
-    return 0;
-  }
-  if (parsed.positionals.length > 0) {
-    io.stderr(`Unexpected argument '${parsed.positionals[0]}'.\n\nUsage: ${USAGE}\n`);
-    return 2;
-  }
-  const json = v.json === true;
+  const json = parsed.json;
   const str = (name: keyof typeof OPTIONS): string | null => (typeof v[name] === "string" ? (v[name] as string) : null);
   const r = computeMeltpool({
     alloy: str("alloy"),

@@ -1,7 +1,7 @@
 import { writeFileSync } from "node:fs";
 import { cliActor } from "../../server/actor";
 import { createSuggestionSet, suggestionSetCsv, type SuggestionSetView } from "../../server/suggestions";
-import { parseCli, reportError } from "../args";
+import { parseCommand, reportError } from "../args";
 import type { CliCommand, CliIo } from "../types";
 
 const USAGE = `meltledger suggest --alloy 316L --power 50-400W --speed 200-2000mm/s --hatch 100um --layer 30um
@@ -47,18 +47,10 @@ function printTable(io: CliIo, s: SuggestionSetView): void {
 
 /** `meltledger suggest`: suggested experiments for the thinnest cells, stored and optionally written as CSV. */
 export const suggest: CliCommand = async (argv, io) => {
-  const parsed = parseCli(argv, OPTIONS, io, USAGE);
-  if (!parsed.ok) return 2;
+  const parsed = parseCommand(argv, OPTIONS, io, USAGE);
+  if (!parsed.ok) return parsed.exitCode;
   const v = parsed.values as Record<string, string | boolean | undefined>;
-  if (v.help === true) {
-    io.stdout(`Usage: ${USAGE}\n`);
-    return 0;
-  }
-  if (parsed.positionals.length > 0) {
-    io.stderr(`Unexpected argument '${parsed.positionals[0]}'.\n\nUsage: ${USAGE}\n`);
-    return 2;
-  }
-  const json = v.json === true;
+  const json = parsed.json;
   const r = await createSuggestionSet(
     {
       alloy: v.alloy,
