@@ -1,9 +1,7 @@
 // `meltledger coverage` and `meltledger suggest` as a user runs them: real processes on a
 // temporary database holding the hand-built coverage collection.
-import { execFile } from "node:child_process";
 import { readFileSync } from "node:fs";
 import path from "node:path";
-import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { closeSqlite, sqlite } from "@/lib/db/connection";
 import { disconnectPrisma } from "@/lib/db/client";
@@ -12,21 +10,12 @@ import { SUGGESTION_CAUTION } from "@/lib/domain/safety";
 import { localActor } from "@/lib/server/actor";
 import { insertRecordsBulk } from "@/lib/server/records-bulk";
 import { coverageFixture, createSourceOrThrow } from "../support/coverage-fixture";
+import { cliFor } from "../support/cli";
 import { useTempDatabase } from "../support/temp-db";
 
-const run = promisify(execFile);
 const tmp = useTempDatabase("cli-coverage");
-const BIN = path.resolve(import.meta.dirname, "../../bin/meltledger.mjs");
+const cli = cliFor(tmp.filePath);
 
-async function cli(...args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  try {
-    const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: `file:${tmp.filePath}` }, maxBuffer: 16 * 1024 * 1024 });
-    return { code: 0, stdout, stderr };
-  } catch (error) {
-    const e = error as { code: number; stdout: string; stderr: string };
-    return { code: e.code, stdout: e.stdout, stderr: e.stderr };
-  }
-}
 
 beforeAll(async () => {
   migrate(sqlite());

@@ -1,28 +1,17 @@
 // `meltledger import` as a user runs it: a real process on a temporary database.
-import { execFile } from "node:child_process";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { openSqlite } from "@/lib/db/connection";
+import { cliFor } from "../support/cli";
 import { useTempDatabase } from "../support/temp-db";
 
-const run = promisify(execFile);
 const tmp = useTempDatabase("cli-import");
-const BIN = path.resolve(import.meta.dirname, "../../bin/meltledger.mjs");
+const cli = cliFor(tmp.filePath);
 const DATASET = path.resolve(import.meta.dirname, "../../../shared/datasets/lpbf-relative-density-2025/dataset.xlsx");
 const work = mkdtempSync(path.join(os.tmpdir(), "meltledger-cli-import-"));
 
-async function cli(...args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  try {
-    const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: `file:${tmp.filePath}` }, maxBuffer: 64 * 1024 * 1024 });
-    return { code: 0, stdout, stderr };
-  } catch (error) {
-    const e = error as { code: number; stdout: string; stderr: string };
-    return { code: e.code, stdout: e.stdout, stderr: e.stderr };
-  }
-}
 
 function file(name: string, text: string): string {
   const p = path.join(work, name);

@@ -1,8 +1,5 @@
 // `meltledger check` and `meltledger flags` as a script runs them: a real process on a temporary
 // database that the test fills through the server layer.
-import { execFile } from "node:child_process";
-import path from "node:path";
-import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { sqlite } from "@/lib/db/connection";
 import { migrate } from "@/lib/db/migrate";
@@ -10,21 +7,12 @@ import { localActor } from "@/lib/server/actor";
 import { insertRecordsBulk } from "@/lib/server/records-bulk";
 import { createSource } from "@/lib/server/sources";
 import { mixedUnitRecord, sourceInput } from "../support/fixtures";
+import { cliFor } from "../support/cli";
 import { useTempDatabase } from "../support/temp-db";
 
-const run = promisify(execFile);
 const tmp = useTempDatabase("cli-review");
-const BIN = path.resolve(import.meta.dirname, "../../bin/meltledger.mjs");
+const cli = cliFor(tmp.filePath);
 
-async function cli(...args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  try {
-    const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: `file:${tmp.filePath}` }, maxBuffer: 64 * 1024 * 1024 });
-    return { code: 0, stdout, stderr };
-  } catch (error) {
-    const e = error as { code: number; stdout: string; stderr: string };
-    return { code: e.code, stdout: e.stdout, stderr: e.stderr };
-  }
-}
 
 interface FlagJson { id: number; record_id: number; import_file: string | null; import_row: number | null; code: string; severity: string; message: string; details: Record<string, unknown>; state: string; resolution: string | null; version: number }
 const flagsJson = async (...filters: string[]) => {

@@ -1,25 +1,14 @@
 // The `meltledger` command as a user runs it: a real process, DATABASE_URL pointing at a
 // temporary file.
-import { execFile } from "node:child_process";
 import { existsSync, readdirSync } from "node:fs";
 import path from "node:path";
-import { promisify } from "node:util";
 import { afterAll, describe, expect, test } from "vitest";
+import { cliFor } from "../support/cli";
 import { useTempDatabase } from "../support/temp-db";
 
-const run = promisify(execFile);
 const tmp = useTempDatabase("cli");
-const BIN = path.resolve(import.meta.dirname, "../../bin/meltledger.mjs");
+const cli = cliFor(tmp.filePath);
 
-async function cli(...args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  try {
-    const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: `file:${tmp.filePath}` }, maxBuffer: 64 * 1024 * 1024 });
-    return { code: 0, stdout, stderr };
-  } catch (error) {
-    const e = error as { code: number; stdout: string; stderr: string };
-    return { code: e.code, stdout: e.stdout, stderr: e.stderr };
-  }
-}
 
 afterAll(() => tmp.cleanup());
 

@@ -1,10 +1,8 @@
 // Training-set export through the server layer and the `meltledger export` command, on a
 // temporary database of invented records.
-import { execFile } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, readdirSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { promisify } from "node:util";
 import { parse } from "csv-parse/sync";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { migrate } from "@/lib/db/migrate";
@@ -16,22 +14,13 @@ import { insertRecordsBulk } from "@/lib/server/records-bulk";
 import { createSource } from "@/lib/server/sources";
 import { acceptRecordsForTest } from "../support/accept-records";
 import { mixedUnitRecord, sourceInput } from "../support/fixtures";
+import { cliFor } from "../support/cli";
 import { useTempDatabase } from "../support/temp-db";
 
-const run = promisify(execFile);
 const tmp = useTempDatabase("export");
-const BIN = path.resolve(import.meta.dirname, "../../bin/meltledger.mjs");
+const cli = cliFor(tmp.filePath);
 const out = mkdtempSync(path.join(os.tmpdir(), "meltledger-export-out-"));
 
-async function cli(...args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  try {
-    const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: `file:${tmp.filePath}` }, maxBuffer: 64 * 1024 * 1024 });
-    return { code: 0, stdout, stderr };
-  } catch (error) {
-    const e = error as { code: number; stdout: string; stderr: string };
-    return { code: e.code, stdout: e.stdout, stderr: e.stderr };
-  }
-}
 
 const ALLOYS = ["316L", "IN718"];
 let recordCount = 0;

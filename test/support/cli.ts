@@ -1,0 +1,26 @@
+// Runs the real `meltledger` command in a child process against one test database.
+import { execFile } from "node:child_process";
+import path from "node:path";
+import { promisify } from "node:util";
+
+const run = promisify(execFile);
+const BIN = path.resolve(import.meta.dirname, "../../bin/meltledger.mjs");
+
+export interface CliRun {
+  code: number;
+  stdout: string;
+  stderr: string;
+}
+
+/** A `cli(...args)` function bound to the SQLite file `databaseFile`; it never throws on a non-zero exit. */
+export function cliFor(databaseFile: string): (...args: string[]) => Promise<CliRun> {
+  return async (...args) => {
+    try {
+      const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: `file:${databaseFile}` }, maxBuffer: 64 * 1024 * 1024 });
+      return { code: 0, stdout, stderr };
+    } catch (error) {
+      const e = error as CliRun;
+      return { code: e.code, stdout: e.stdout, stderr: e.stderr };
+    }
+  };
+}
