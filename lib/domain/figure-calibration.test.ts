@@ -151,7 +151,12 @@ describe("properties", () => {
         const p = input.ticks[0].pixel + f * (input.ticks[1].pixel - input.ticks[0].pixel);
         const u = valueUncertainty(a, p, du);
         const v = pixelToValue(a, p);
-        for (const q of [p - du, p + du]) expect(Math.abs(pixelToValue(a, q) - v)).toBeLessThanOrEqual(u * (1 + 1e-9) + 1e-12);
+        // Beside the relative slack, allow the floating-point rounding of values as large as 1e9:
+        // a few ulps of the larger value, which the difference of two readings cannot beat.
+        for (const q of [p - du, p + du]) {
+          const vq = pixelToValue(a, q);
+          expect(Math.abs(vq - v)).toBeLessThanOrEqual(u * (1 + 1e-9) + 1e-12 + 16 * Number.EPSILON * Math.max(Math.abs(v), Math.abs(vq)));
+        }
       }),
     );
   });
