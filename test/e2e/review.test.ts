@@ -68,6 +68,8 @@ describe("review queue, keyboard only", () => {
     await page.keyboard.press("Enter"); // no reason yet: refused, nothing changes
     await page.locator(".review-form .field__error").waitFor();
     await expect(page.locator(".review-form .field__error").innerText()).resolves.toMatch(/reason/i);
+    // The refused save has finished once its button is back (it is disabled while saving).
+    await page.locator('.review-form button[type="submit"]:not([disabled])').waitFor();
     await page.keyboard.type("checked against the source table");
     await page.keyboard.press("Enter");
     await waitForDone(second, new RegExp(`Flag ${second} waived`));

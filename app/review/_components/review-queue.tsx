@@ -104,7 +104,17 @@ export function ReviewQueueView({ queue }: { queue: ReviewQueue }) {
     [router],
   );
 
-  const run = useCallback((f: () => Promise<ReviewActionState>) => startTransition(async () => finish(await f())), [finish]);
+  // The result is applied inside a transition of its own: React only treats updates after an await
+  // as part of the transition when wrapped again, and otherwise shows the outcome while the form
+  // still counts as pending (its submit button disabled, so Enter would do nothing).
+  const run = useCallback(
+    (f: () => Promise<ReviewActionState>) =>
+      startTransition(async () => {
+        const r = await f();
+        startTransition(() => finish(r));
+      }),
+    [finish],
+  );
 
   const accept = useCallback(() => {
     if (!entry) return;
