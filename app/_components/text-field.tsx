@@ -11,6 +11,20 @@ interface FieldChrome {
   className?: string;
 }
 
+/** The label, hint and messages around one control, bound to it through its id. */
+function FieldShell({ label, inputId, hint, error, optional, className, children }: Omit<FieldChrome, "name" | "id"> & { inputId: string; children: ReactNode }) {
+  return (
+    <div className={["field", className].filter(Boolean).join(" ")}>
+      <FieldLabel htmlFor={inputId} optional={optional}>
+        {label}
+      </FieldLabel>
+      {children}
+      <FieldHint id={inputId}>{hint}</FieldHint>
+      <FieldError id={inputId} messages={error} />
+    </div>
+  );
+}
+
 export type TextFieldProps = FieldChrome & Omit<InputHTMLAttributes<HTMLInputElement>, "name" | "id" | "className">;
 
 /** A labelled text input with its hint and messages bound through aria-describedby. */
@@ -18,21 +32,9 @@ export function TextField({ label, name, id, hint, error, optional, className, .
   const inputId = id ?? fieldId(name);
   const invalid = Boolean(error && error.length);
   return (
-    <div className={["field", className].filter(Boolean).join(" ")}>
-      <FieldLabel htmlFor={inputId} optional={optional}>
-        {label}
-      </FieldLabel>
-      <input
-        className="input"
-        id={inputId}
-        name={name}
-        aria-invalid={invalid || undefined}
-        aria-describedby={describedBy(inputId, { hint, error: invalid })}
-        {...input}
-      />
-      <FieldHint id={inputId}>{hint}</FieldHint>
-      <FieldError id={inputId} messages={error} />
-    </div>
+    <FieldShell label={label} inputId={inputId} hint={hint} error={error} optional={optional} className={className}>
+      <input className="input" id={inputId} name={name} aria-invalid={invalid || undefined} aria-describedby={describedBy(inputId, { hint, error: invalid })} {...input} />
+    </FieldShell>
   );
 }
 
@@ -42,20 +44,8 @@ export function TextAreaField({ label, name, id, hint, error, optional, classNam
   const inputId = id ?? fieldId(name);
   const invalid = Boolean(error && error.length);
   return (
-    <div className={["field", className].filter(Boolean).join(" ")}>
-      <FieldLabel htmlFor={inputId} optional={optional}>
-        {label}
-      </FieldLabel>
-      <textarea
-        className="textarea"
-        id={inputId}
-        name={name}
-        aria-invalid={invalid || undefined}
-        aria-describedby={describedBy(inputId, { hint, error: invalid })}
-        {...input}
-      />
-      <FieldHint id={inputId}>{hint}</FieldHint>
-      <FieldError id={inputId} messages={error} />
-    </div>
+    <FieldShell label={label} inputId={inputId} hint={hint} error={error} optional={optional} className={className}>
+      <textarea className="textarea" id={inputId} name={name} aria-invalid={invalid || undefined} aria-describedby={describedBy(inputId, { hint, error: invalid })} {...input} />
+    </FieldShell>
   );
 }
