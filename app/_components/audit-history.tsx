@@ -1,5 +1,5 @@
 import { diffSnapshots } from "./audit-diff";
-import { formatDateTime } from "./format";
+import { formatDateTime, plural } from "./format";
 
 /** The fields of an audit event the history needs (a subset of the server's row). */
 export interface HistoryEvent {
@@ -106,5 +106,18 @@ function ChangeTable({ changes, showBefore }: { changes: ReturnType<typeof diffS
         ))}
       </tbody>
     </table>
+  );
+}
+
+/** The history panel of an entity page: its heading, the event count, and every event. */
+export function HistoryPanel({ events }: { events: readonly HistoryEvent[] }) {
+  return (
+    <section className="panel" aria-labelledby="history">
+      <div className="panel__title">
+        <h2 id="history">History</h2>
+        <span className="muted">{plural(events.length, "event")}</span>
+      </div>
+      <AuditHistory events={events} />
+    </section>
   );
 }

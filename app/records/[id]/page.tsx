@@ -5,11 +5,11 @@ import { CANONICAL_UNIT } from "@/lib/domain/units";
 import { RECORD_QUANTITY_FIELD_NAMES, RECORD_QUANTITY_FIELDS, canonicalKeyOf } from "@/lib/schemas/record";
 import { getRecordPage } from "@/lib/server/records";
 import { Alert } from "../../_components/alert";
-import { AuditHistory } from "../../_components/audit-history";
+import { HistoryPanel } from "../../_components/audit-history";
 import { fieldLabel } from "../../_components/audit-diff";
 import { FlashNotice } from "../../_components/flash-notice";
 import { ButtonLink } from "../../_components/button";
-import { formatDateTime, formatNumber, formatSignificant, plural } from "../../_components/format";
+import { formatDateTime, formatNumber, formatSignificant } from "../../_components/format";
 import { spotDefinitionShort } from "../../_components/labels";
 import { LoadError } from "../../_components/load-error";
 import { OutcomeLabel } from "../../_components/outcome-label";
@@ -248,13 +248,7 @@ export default async function RecordPage({ params }: Props) {
             </p>
           </section>
 
-          <section className="panel" aria-labelledby="history">
-            <div className="panel__title">
-              <h2 id="history">History</h2>
-              <span className="muted">{plural(history.length, "event")}</span>
-            </div>
-            <AuditHistory events={history} />
-          </section>
+          <HistoryPanel events={history} />
         </div>
       </div>
     </>

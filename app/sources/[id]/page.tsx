@@ -2,7 +2,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getSourceDetail } from "@/lib/server/source-detail";
 import { FlashNotice } from "../../_components/flash-notice";
-import { AuditHistory } from "../../_components/audit-history";
+import { HistoryPanel } from "../../_components/audit-history";
 import { ButtonLink } from "../../_components/button";
 import { formatDateTime, formatNumber, plural } from "../../_components/format";
 import { LoadError } from "../../_components/load-error";
@@ -103,13 +103,7 @@ export default async function SourcePage({ params }: Props) {
           </section>
           <SourceDocuments sourceId={s.id} sourceDoi={s.doi} />
           <SourceQualityPanel sourceId={s.id} />
-          <section className="panel" aria-labelledby="history">
-            <div className="panel__title">
-              <h2 id="history">History</h2>
-              <span className="muted">{plural(history.length, "event")}</span>
-            </div>
-            <AuditHistory events={history} />
-          </section>
+          <HistoryPanel events={history} />
         </div>
       </div>
     </>
