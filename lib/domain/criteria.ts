@@ -86,18 +86,38 @@ export interface CriteriaOptions {
   include?: readonly CriterionName[];
 }
 
+const SHEIKH = "Sheikh et al., npj Comput. Mater. 10:252 (2024)";
+const KEYHOLE_ASPECT_SOURCE = `${SHEIKH}; Johnson et al., Acta Mater. 176:199–210 (2019) used 1.5 (from memory)`;
+const KEYHOLE_ENTHALPY_SOURCE = "King et al., J. Mater. Process. Technol. 214(12):2915–2925 (2014); threshold π·T_boil/T_melt as in " + SHEIKH;
+
 function usable(value: number | null | undefined): number | null {
   return typeof value === "number" && Number.isFinite(value) && value > 0 ? value : null;
 }
 
+/**
+ * A criterion's result with its verdict. Every result is built with the same fields in the same
+ * order (note last, undefined when there is none) so the engine keeps one object shape for all.
+ */
 function judged(
-  base: Omit<CriterionResult, "fired" | "margin">,
+  name: CriterionName,
+  mechanism: Mechanism,
+  rule: string,
+  value: number | null,
+  threshold: number | null,
+  comparison: CriterionResult["comparison"],
+  inputs: Record<string, number | null>,
+  source: string,
+  note: string | undefined,
 ): CriterionResult {
-  const { value, threshold, comparison } = base;
-  if (value === null || threshold === null) return { ...base, fired: false, margin: null };
-  const margin = comparison === "<=" ? (threshold - value) / threshold : (value - threshold) / threshold;
-  const fired = comparison === ">" ? value > threshold : margin >= 0;
-  return { ...base, fired, margin };
+  let fired = false;
+  let margin: number | null = null;
+  if (value !== null && threshold !== null) {
+    margin = comparison === "<=" ? (threshold - value) / threshold : (value - threshold) / threshold;
+    fired = comparison === ">" ? value > threshold : margin >= 0;
+  }
+  const r: CriterionResult = { name, mechanism, rule, value, threshold, comparison, fired, margin, inputs, source };
+  if (note !== undefined) r.note = note;
+  return r;
 }
 
 function checkThresholds(t: CriteriaThresholds): void {
@@ -109,6 +129,39 @@ function checkThresholds(t: CriteriaThresholds): void {
   }
 }
 
+interface ResolvedCriteriaOptions {
+  t: CriteriaThresholds;
+  include: ReadonlySet<CriterionName>;
+  /** What the options held when they were checked; a caller that mutates them is checked again. */
+  seen: { thresholds: Partial<CriteriaThresholds> | undefined; include: readonly CriterionName[] | undefined };
+}
+
+const DEFAULT_RESOLVED: ResolvedCriteriaOptions = { t: { ...DEFAULT_CRITERIA_THRESHOLDS }, include: new Set(DEFAULT_CRITERIA), seen: { thresholds: undefined, include: undefined } };
+/** Checked thresholds per options object: a caller that reuses its options pays for the check once. */
+const resolvedCache = new WeakMap<CriteriaOptions, ResolvedCriteriaOptions>();
+const THRESHOLD_KEYS = Object.keys(DEFAULT_CRITERIA_THRESHOLDS) as (keyof CriteriaThresholds)[];
+
+function resolvedOptions(options: CriteriaOptions): ResolvedCriteriaOptions {
+  if (!options.thresholds && !options.include) return DEFAULT_RESOLVED;
+  const cached = resolvedCache.get(options);
+  if (cached && cached.seen.include === options.include && sameThresholds(cached.seen.thresholds, options.thresholds)) return cached;
+  const t: CriteriaThresholds = { ...DEFAULT_CRITERIA_THRESHOLDS, ...options.thresholds };
+  checkThresholds(t);
+  const resolved: ResolvedCriteriaOptions = {
+    t,
+    include: new Set(options.include ?? DEFAULT_CRITERIA),
+    seen: { thresholds: options.thresholds ? { ...options.thresholds } : undefined, include: options.include },
+  };
+  resolvedCache.set(options, resolved);
+  return resolved;
+}
+
+function sameThresholds(a: Partial<CriteriaThresholds> | undefined, b: Partial<CriteriaThresholds> | undefined): boolean {
+  if (!a || !b) return a === b;
+  for (const key of THRESHOLD_KEYS) if (a[key] !== b[key]) return false;
+  return true;
+}
+
 /**
  * Evaluates the defect criteria on a melt pool.
  *
@@ -118,9 +171,7 @@ function checkThresholds(t: CriteriaThresholds): void {
  * // balling_aspect fires (L/W = 3.33 ≥ 2.3), keyhole_enthalpy fires (6.4 > 5.63), ...
  */
 export function evaluateCriteria(inputs: CriteriaInputs, options: CriteriaOptions = {}): CriterionResult[] {
-  const t: CriteriaThresholds = { ...DEFAULT_CRITERIA_THRESHOLDS, ...options.thresholds };
-  checkThresholds(t);
-  const include = new Set(options.include ?? DEFAULT_CRITERIA);
+  const { t, include } = resolvedOptions(options);
   const W = inputs.melted ? usable(inputs.widthUm) : null;
   const D = inputs.melted ? usable(inputs.depthUm) : null;
   const L = inputs.melted ? usable(inputs.lengthUm) : null;
@@ -128,67 +179,48 @@ export function evaluateCriteria(inputs: CriteriaInputs, options: CriteriaOption
   const layer = usable(inputs.layerThicknessUm);
   const noMelt = inputs.melted ? undefined : "no melting";
   const results: CriterionResult[] = [];
-  const sheikh = "Sheikh et al., npj Comput. Mater. 10:252 (2024)";
 
   if (include.has("lack_of_fusion_depth")) {
     let value: number | null = null;
     let note: string | undefined;
     if (layer === null) note = "needs the layer thickness";
     else value = inputs.melted ? (D ?? 0) / layer : 0;
-    results.push(judged({
-      name: "lack_of_fusion_depth", mechanism: "lack_of_fusion", rule: "D/t <= threshold", value,
-      threshold: t.lackOfFusionDepthRatio, comparison: "<=", inputs: { depthUm: inputs.depthUm, layerThicknessUm: layer },
-      source: sheikh, ...(note || noMelt ? { note: note ?? noMelt } : {}),
-    }));
+    results.push(judged("lack_of_fusion_depth", "lack_of_fusion", "D/t <= threshold", value, t.lackOfFusionDepthRatio, "<=",
+      { depthUm: inputs.depthUm, layerThicknessUm: layer }, SHEIKH, note ?? noMelt));
   }
   if (include.has("lack_of_fusion_overlap")) {
     const missing = h === null || layer === null ? "needs hatch spacing and layer thickness" : undefined;
     const value = missing || W === null || D === null || h === null || layer === null ? null : (h / W) ** 2 + layer / (layer + D);
-    const r = judged({
-      name: "lack_of_fusion_overlap", mechanism: "lack_of_fusion", rule: "(h/W)^2 + t/(t + D) >= threshold", value,
-      threshold: t.lackOfFusionOverlap, comparison: ">=", inputs: { widthUm: inputs.widthUm, depthUm: inputs.depthUm, hatchSpacingUm: h, layerThicknessUm: layer },
-      source: sheikh, ...(missing || noMelt ? { note: missing ?? noMelt } : {}),
-    });
+    const r = judged("lack_of_fusion_overlap", "lack_of_fusion", "(h/W)^2 + t/(t + D) >= threshold", value, t.lackOfFusionOverlap, ">=",
+      { widthUm: inputs.widthUm, depthUm: inputs.depthUm, hatchSpacingUm: h, layerThicknessUm: layer }, SHEIKH, missing ?? noMelt);
     // Without a melt pool there is no overlap at all: the criterion fires without a finite value.
-    results.push(!missing && !inputs.melted ? { ...r, fired: true } : r);
+    if (!missing && !inputs.melted) r.fired = true;
+    results.push(r);
   }
   if (include.has("lack_of_fusion_overlap_tang")) {
     const missing = h === null || layer === null ? "needs hatch spacing and layer thickness" : undefined;
     const value = missing || W === null || D === null || h === null || layer === null ? null : (h / W) ** 2 + (layer / D) ** 2;
-    const r = judged({
-      name: "lack_of_fusion_overlap_tang", mechanism: "lack_of_fusion", rule: "(h/W)^2 + (t/D)^2 > threshold", value,
-      threshold: t.lackOfFusionOverlapTang, comparison: ">", inputs: { widthUm: inputs.widthUm, depthUm: inputs.depthUm, hatchSpacingUm: h, layerThicknessUm: layer },
-      source: "Tang, Pistorius & Beuth, Additive Manufacturing 14:39–48 (2017), from memory", ...(missing || noMelt ? { note: missing ?? noMelt } : {}),
-    });
-    results.push(!missing && !inputs.melted ? { ...r, fired: true } : r);
+    const r = judged("lack_of_fusion_overlap_tang", "lack_of_fusion", "(h/W)^2 + (t/D)^2 > threshold", value, t.lackOfFusionOverlapTang, ">",
+      { widthUm: inputs.widthUm, depthUm: inputs.depthUm, hatchSpacingUm: h, layerThicknessUm: layer },
+      "Tang, Pistorius & Beuth, Additive Manufacturing 14:39–48 (2017), from memory", missing ?? noMelt);
+    if (!missing && !inputs.melted) r.fired = true;
+    results.push(r);
   }
   if (include.has("balling_aspect")) {
-    results.push(judged({
-      name: "balling_aspect", mechanism: "balling", rule: "L/W >= threshold", value: L !== null && W !== null ? L / W : null,
-      threshold: t.ballingLengthToWidth, comparison: ">=", inputs: { lengthUm: inputs.lengthUm, widthUm: inputs.widthUm },
-      source: sheikh, ...(noMelt ? { note: noMelt } : {}),
-    }));
+    results.push(judged("balling_aspect", "balling", "L/W >= threshold", L !== null && W !== null ? L / W : null, t.ballingLengthToWidth, ">=",
+      { lengthUm: inputs.lengthUm, widthUm: inputs.widthUm }, SHEIKH, noMelt));
   }
   if (include.has("keyhole_aspect")) {
-    results.push(judged({
-      name: "keyhole_aspect", mechanism: "keyhole", rule: "W/D <= threshold", value: W !== null && D !== null ? W / D : null,
-      threshold: t.keyholeWidthToDepth, comparison: "<=", inputs: { widthUm: inputs.widthUm, depthUm: inputs.depthUm },
-      source: `${sheikh}; Johnson et al., Acta Mater. 176:199–210 (2019) used 1.5 (from memory)`, ...(noMelt ? { note: noMelt } : {}),
-    }));
+    results.push(judged("keyhole_aspect", "keyhole", "W/D <= threshold", W !== null && D !== null ? W / D : null, t.keyholeWidthToDepth, "<=",
+      { widthUm: inputs.widthUm, depthUm: inputs.depthUm }, KEYHOLE_ASPECT_SOURCE, noMelt));
   }
   if (include.has("keyhole_enthalpy")) {
     const tb = usable(inputs.boilingTemperatureK);
     const threshold = t.keyholeNormalizedEnthalpy ?? (tb !== null ? (Math.PI * tb) / inputs.meltingTemperatureK : null);
     const enthalpy = typeof inputs.normalizedEnthalpy === "number" && Number.isFinite(inputs.normalizedEnthalpy) ? inputs.normalizedEnthalpy : null;
     const note = threshold === null ? "needs the boiling temperature for the default threshold π·T_boil/T_melt" : enthalpy === null ? "needs the normalized enthalpy" : undefined;
-    results.push(judged({
-      name: "keyhole_enthalpy", mechanism: "keyhole",
-      rule: t.keyholeNormalizedEnthalpy === null ? "ΔH/h_s > π·T_boil/T_melt" : "ΔH/h_s > threshold",
-      value: enthalpy, threshold, comparison: ">",
-      inputs: { normalizedEnthalpy: enthalpy, boilingTemperatureK: tb, meltingTemperatureK: inputs.meltingTemperatureK },
-      source: "King et al., J. Mater. Process. Technol. 214(12):2915–2925 (2014); threshold π·T_boil/T_melt as in " + sheikh,
-      ...(note ? { note } : {}),
-    }));
+    results.push(judged("keyhole_enthalpy", "keyhole", t.keyholeNormalizedEnthalpy === null ? "ΔH/h_s > π·T_boil/T_melt" : "ΔH/h_s > threshold", enthalpy, threshold, ">",
+      { normalizedEnthalpy: enthalpy, boilingTemperatureK: tb, meltingTemperatureK: inputs.meltingTemperatureK }, KEYHOLE_ENTHALPY_SOURCE, note));
   }
   return results;
 }

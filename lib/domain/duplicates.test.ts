@@ -49,7 +49,7 @@ describe("classifyPair", () => {
 
 // Random small sets on a coarse lattice so that duplicates of every kind actually occur.
 const often = <T,>(common: T, ...rare: T[]) => fc.oneof({ arbitrary: fc.constant(common), weight: 4 }, { arbitrary: fc.constantFrom(common, ...rare), weight: 1 });
-const recordArb = fc.record({
+const recordFields = {
   sourceId: often(1, 2),
   alloyKey: often("316L", "IN718"),
   laserPowerW: fc.oneof(fc.constantFrom(1, 2, 3, 18, 19, 20, 100, 101, 102, 103, 200, 202, 203, 400, 404), fc.constant(null)),
@@ -59,7 +59,8 @@ const recordArb = fc.record({
   spotDiameterUm: often(80, 82, 83),
   outcome: often("dense", "keyhole", "unknown"),
   relativeDensityPct: often(99.5, 99.45, 97, 90, null),
-});
+};
+const recordArb = fc.record(recordFields);
 
 function bruteForce(records: readonly CheckRecord[], isDistinct: (a: number, b: number) => boolean): DuplicatePair[] {
   const out: DuplicatePair[] = [];
@@ -83,6 +84,19 @@ describe("findDuplicatePairs", () => {
         const records = rows.map((r, i) => ({ ...base, ...r, id: i + 1, entered: {} }) as CheckRecord);
         const isDistinct = (a: number, b: number) => distinctMod > 0 && (a + b) % 8 === distinctMod;
         expect(findDuplicatePairs(records, tol, { isDistinct })).toEqual(bruteForce(records, isDistinct));
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  test("property: both block orderings (dense grid, counting sort; sparse grid, packed sort) equal brute force", () => {
+    // Narrow (P, v) spans keep the grid small next to the block (counting sort); speeds spread over
+    // four decades make it far larger than the block (the packed-key sort).
+    const spread = fc.record({ ...recordFields, scanSpeedMmPerS: often(800, 801, 10, 12, 50_000, 99_000) });
+    fc.assert(
+      fc.property(fc.array(fc.oneof(recordArb, spread), { maxLength: 40 }), (rows) => {
+        const records = rows.map((r, i) => ({ ...base, ...r, id: i + 1, entered: {} }) as CheckRecord);
+        expect(findDuplicatePairs(records, tol)).toEqual(bruteForce(records, () => false));
       }),
       { numRuns: 300 },
     );

@@ -170,6 +170,84 @@ export interface FindDuplicatesOptions {
 }
 
 const MIN_CELL = 1e-6;
+/** The block key of records without a layer thickness (no real bucket is this low). */
+const NO_LAYER = Number.MIN_SAFE_INTEGER;
+
+interface Block {
+  /** Record indices, ascending (the order records were met). */
+  members: number[];
+  /** (P cell, v cell) of each member, two numbers a member. */
+  cells: number[];
+  /** P, v, h, t, d of each member, five numbers a member (NaN where missing). */
+  raw: number[];
+  pMin: number;
+  pMax: number;
+  vMin: number;
+  vMax: number;
+  /** Cell number of each member, ascending. */
+  keys: Float64Array;
+  /** Record index of each member, in cell order (ties by index). */
+  order: Int32Array;
+  /** Where each cell's members begin in `order` (one past the last cell at the end), when the grid is dense enough to keep one. */
+  starts: Int32Array | null;
+  /** `raw` in cell order. */
+  values: Float64Array;
+}
+
+const WIDTH = 5;
+const EMPTY_F64 = new Float64Array(0);
+const EMPTY_I32 = new Int32Array(0);
+
+/**
+ * Orders a block's members by (P, v) cell, ties by record index. A counting sort when the grid is
+ * not much larger than the block (linear time, the usual case), a native typed-array sort of
+ * packed (cell, position) keys otherwise. Everything it reads is the block's own.
+ */
+function sortBlock(g: Block): void {
+  const n = g.members.length;
+  const vSpan = g.vMax - g.vMin + 1;
+  const cells = (g.pMax - g.pMin + 1) * vSpan;
+  const cellAt = new Float64Array(n);
+  for (let m = 0; m < n; m++) cellAt[m] = (g.cells[2 * m]! - g.pMin) * vSpan + (g.cells[2 * m + 1]! - g.vMin);
+  // perm[k] = the member position that comes k-th in cell order.
+  const perm = new Int32Array(n);
+  if (cells <= 4 * n + 1024) {
+    // Members are already in ascending index order, and a counting sort is stable.
+    const counts = new Int32Array(cells + 1);
+    for (let m = 0; m < n; m++) counts[cellAt[m]! + 1]!++;
+    for (let c = 0; c < cells; c++) counts[c + 1]! += counts[c]!;
+    g.starts = Int32Array.from(counts);
+    for (let m = 0; m < n; m++) perm[counts[cellAt[m]!]!++] = m;
+  } else {
+    const SHIFT = 2 ** 20;
+    if (n >= SHIFT || cells >= 2 ** 33) {
+      const sorted = Array.from({ length: n }, (_, m) => m).sort((a, b) => cellAt[a]! - cellAt[b]! || a - b);
+      sorted.forEach((m, k) => (perm[k] = m));
+    } else {
+      // Cell numbers below 2^33 and positions below 2^20: the packed key is an exact integer.
+      const packed = new Float64Array(n);
+      for (let m = 0; m < n; m++) packed[m] = cellAt[m]! * SHIFT + m;
+      packed.sort();
+      for (let k = 0; k < n; k++) perm[k] = packed[k]! % SHIFT;
+    }
+  }
+  const order = new Int32Array(n);
+  const keys = new Float64Array(n);
+  const values = new Float64Array(WIDTH * n);
+  for (let k = 0; k < n; k++) {
+    const m = perm[k]!;
+    order[k] = g.members[m]!;
+    keys[k] = cellAt[m]!;
+    for (let c = 0; c < WIDTH; c++) values[WIDTH * k + c] = g.raw[WIDTH * m + c]!;
+  }
+  g.order = order;
+  g.keys = keys;
+  g.values = values;
+  // The build lists are not needed any more.
+  g.cells = [];
+  g.raw = [];
+}
+
 /** Layer buckets 10 µm wide, edges at 7.5, 17.5, 27.5 µm…, so the common layers (20, 25, 30, 40 µm) sit well inside one. */
 const LAYER_BUCKET_UM = 10;
 const LAYER_OFFSET_UM = 2.5;
@@ -204,25 +282,15 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
   const speedRel = t.speedRelPct / 100;
   const wP = Math.max(Math.log1p(powerRel), MIN_CELL);
   const wV = Math.max(Math.log1p(speedRel), MIN_CELL);
-  // Cell numbers stay small integers (kept in Int32Arrays so map keys are never boxed numbers).
-  const pCell = new Int32Array(records.length);
-  const vCell = new Int32Array(records.length);
-  // Process values in flat arrays (NaN for missing): the candidate loop reads these, not the
-  // record objects, so 100k records stay cache-friendly.
-  const P = new Float64Array(records.length);
-  const V = new Float64Array(records.length);
-  const H = new Float64Array(records.length);
-  const L = new Float64Array(records.length);
-  const D = new Float64Array(records.length);
   const num = (x: number | null) => (x === null ? Number.NaN : x);
   // Records without P or v can only be exact duplicates, found by key.
   const byKey = new Map<string, number[]>();
-  // Blocks: alloy and a coarse layer-thickness bucket (layers come in few values, so this splits
-  // the work several ways); inside a block, a map from a small integer (P, v) cell number to records.
+  // Blocks: alloy, then a coarse layer-thickness bucket (layers come in few values, so this splits
+  // the work several ways; NO_LAYER holds records without a layer). Nested maps, so a lookup builds
+  // no key string. Each block keeps its members' cells and values in its own arrays, so the
+  // candidate loop reads small contiguous arrays, not the record objects.
   const layerBucket = (t: number) => Math.floor((t + LAYER_OFFSET_UM) / LAYER_BUCKET_UM);
-  const blockKey = (alloy: string, bucket: number | null) => `${alloy}|${bucket ?? "-"}`;
-  const blocks = new Map<string, { members: number[]; pMin: number; pMax: number; vMin: number; vMax: number; keys: Float64Array; order: Int32Array }>();
-  const none = { keys: new Float64Array(0), order: new Int32Array(0) };
+  const blocksByAlloy = new Map<string, Map<number, Block>>();
   for (let i = 0; i < records.length; i++) {
     const r = records[i]!;
     const p = r.laserPowerW;
@@ -236,78 +304,88 @@ export function findDuplicatePairs(records: readonly CheckRecord[], t: Duplicate
     }
     const pc = Math.floor(Math.log(p) / wP);
     const vc = Math.floor(Math.log(v) / wV);
-    pCell[i] = pc;
-    vCell[i] = vc;
-    P[i] = p;
-    V[i] = v;
-    H[i] = num(r.hatchSpacingUm);
-    L[i] = num(r.layerThicknessUm);
-    D[i] = num(r.spotDiameterUm);
-    const key = blockKey(r.alloyKey, r.layerThicknessUm === null ? null : layerBucket(r.layerThicknessUm));
-    const g = blocks.get(key);
-    if (!g) blocks.set(key, { members: [i], pMin: pc, pMax: pc, vMin: vc, vMax: vc, ...none });
-    else {
-      g.members.push(i);
-      if (pc < g.pMin) g.pMin = pc;
-      if (pc > g.pMax) g.pMax = pc;
-      if (vc < g.vMin) g.vMin = vc;
-      if (vc > g.vMax) g.vMax = vc;
+    const bucket = r.layerThicknessUm === null ? NO_LAYER : layerBucket(r.layerThicknessUm);
+    let byBucket = blocksByAlloy.get(r.alloyKey);
+    if (!byBucket) blocksByAlloy.set(r.alloyKey, (byBucket = new Map()));
+    let g = byBucket.get(bucket);
+    if (!g) {
+      g = { members: [], cells: [], raw: [], pMin: pc, pMax: pc, vMin: vc, vMax: vc, keys: EMPTY_F64, order: EMPTY_I32, starts: null, values: EMPTY_F64 };
+      byBucket.set(bucket, g);
     }
+    g.members.push(i);
+    g.cells.push(pc, vc);
+    g.raw.push(p, v, num(r.hatchSpacingUm), num(r.layerThicknessUm), num(r.spotDiameterUm));
+    if (pc < g.pMin) g.pMin = pc;
+    if (pc > g.pMax) g.pMax = pc;
+    if (vc < g.vMin) g.vMin = vc;
+    if (vc > g.vMax) g.vMax = vc;
   }
   for (const list of byKey.values()) {
     for (let x = 0; x < list.length; x++) for (let y = x + 1; y < list.length; y++) push(list[x]!, list[y]!, "exact");
   }
   // Each block's records sorted by cell number: a row of the (P, v) grid is then one contiguous
-  // run of cell numbers, found by binary search, and its records sit next to each other.
-  for (const g of blocks.values()) {
-    const vSpan = g.vMax - g.vMin + 1;
-    const cellOf = (i: number) => (pCell[i]! - g.pMin) * vSpan + (vCell[i]! - g.vMin);
-    const sorted = [...g.members].sort((a, b) => cellOf(a) - cellOf(b) || a - b);
-    g.order = Int32Array.from(sorted);
-    g.keys = Float64Array.from(sorted, cellOf);
-  }
+  // run of cell numbers, and its records sit next to each other.
+  for (const byBucket of blocksByAlloy.values()) for (const g of byBucket.values()) sortBlock(g);
 
-  for (let i = 0; i < records.length; i++) {
-    const r = records[i]!;
-    const p = r.laserPowerW;
-    const v = r.scanSpeedMmPerS;
-    if (p === null || v === null || !(p > 0) || !(v > 0)) continue;
-    // The box that holds every power within tolerance of p (either side's relative bound).
-    const pLo = Math.min(p - t.powerAbsW, p * (1 - powerRel)) - 1e-9;
-    const pHi = Math.max(p + t.powerAbsW, powerRel < 1 ? p / (1 - powerRel) : Number.POSITIVE_INFINITY) + 1e-9;
-    const vLo = v * (1 - speedRel) - 1e-9;
-    const vHi = (speedRel < 1 ? v / (1 - speedRel) : Number.POSITIVE_INFINITY) + 1e-9;
-    const layer = r.layerThicknessUm;
-    const b0 = layer === null ? 0 : layerBucket(layer - t.layerAbsUm - 1e-9);
-    const b1 = layer === null ? 0 : layerBucket(layer + t.layerAbsUm + 1e-9);
-    for (let bucket = b0; bucket <= b1; bucket++) {
-      const g = blocks.get(blockKey(r.alloyKey, layer === null ? null : bucket));
-      if (!g) continue;
-      const { keys, order } = g;
-      const vSpan = g.vMax - g.vMin + 1;
-      const p0 = Math.max(g.pMin, pLo > 0 ? Math.floor(Math.log(pLo) / wP) : g.pMin);
-      const p1 = Math.min(g.pMax, Math.floor(Math.log(pHi) / wP));
-      const v0 = Math.max(g.vMin, vLo > 0 ? Math.floor(Math.log(vLo) / wV) : g.vMin);
-      const v1 = Math.min(g.vMax, Math.floor(Math.log(vHi) / wV));
-      for (let pc = p0; pc <= p1; pc++) {
-        const from = (pc - g.pMin) * vSpan + (v0 - g.vMin);
-        const to = (pc - g.pMin) * vSpan + (v1 - g.vMin);
-        let lo = 0;
-        let hi = keys.length;
-        while (lo < hi) {
-          const mid = (lo + hi) >> 1;
-          if (keys[mid]! < from) lo = mid + 1;
-          else hi = mid;
-        }
-        for (let k = lo; k < keys.length && keys[k]! <= to; k++) {
-          const j = order[k]!;
-          if (j >= i) continue;
-          // Cheap screen on the flat arrays (the same tolerances as sameProcess); the full
-          // classification runs only for the few candidates that pass.
-          if (!closeFlat(P[i]!, P[j]!, t.powerAbsW, powerRel) || !closeFlat(V[i]!, V[j]!, 0, speedRel)) continue;
-          if (!closeFlat(H[i]!, H[j]!, t.hatchAbsUm, 0) || !closeFlat(L[i]!, L[j]!, t.layerAbsUm, 0) || !closeFlat(D[i]!, D[j]!, t.spotAbsUm, 0)) continue;
-          const kind = classifyPair(r, records[j]!, t, keyOf);
-          if (kind) push(j, i, kind);
+  // Queries go block by block in cell order, so a record's candidates are usually the ones the
+  // previous query touched: the values sit in the blocks' own arrays, read in order.
+  for (const byBucket of blocksByAlloy.values()) {
+    for (const gq of byBucket.values()) {
+      const qv = gq.values;
+      for (let kq = 0; kq < gq.order.length; kq++) {
+        const i = gq.order[kq]!;
+        const p = qv[5 * kq]!;
+        const v = qv[5 * kq + 1]!;
+        const qh = qv[5 * kq + 2]!;
+        const layer = qv[5 * kq + 3]!;
+        const qd = qv[5 * kq + 4]!;
+        // The box that holds every power within tolerance of p (either side's relative bound).
+        const pLo = Math.min(p - t.powerAbsW, p * (1 - powerRel)) - 1e-9;
+        const pHi = Math.max(p + t.powerAbsW, powerRel < 1 ? p / (1 - powerRel) : Number.POSITIVE_INFINITY) + 1e-9;
+        const vLo = v * (1 - speedRel) - 1e-9;
+        const vHi = (speedRel < 1 ? v / (1 - speedRel) : Number.POSITIVE_INFINITY) + 1e-9;
+        const hasLayer = layer === layer;
+        const b0 = hasLayer ? layerBucket(layer - t.layerAbsUm - 1e-9) : NO_LAYER;
+        const b1 = hasLayer ? layerBucket(layer + t.layerAbsUm + 1e-9) : NO_LAYER;
+        for (let bucket = b0; bucket <= b1; bucket++) {
+          const g = byBucket.get(bucket);
+          if (!g) continue;
+          const { keys, order, values, starts } = g;
+          const vSpan = g.vMax - g.vMin + 1;
+          const p0 = Math.max(g.pMin, pLo > 0 ? Math.floor(Math.log(pLo) / wP) : g.pMin);
+          const p1 = Math.min(g.pMax, Math.floor(Math.log(pHi) / wP));
+          const v0 = Math.max(g.vMin, vLo > 0 ? Math.floor(Math.log(vLo) / wV) : g.vMin);
+          const v1 = Math.min(g.vMax, Math.floor(Math.log(vHi) / wV));
+          for (let pc = p0; pc <= p1; pc++) {
+            const from = (pc - g.pMin) * vSpan + (v0 - g.vMin);
+            const to = (pc - g.pMin) * vSpan + (v1 - g.vMin);
+            let lo: number;
+            let end: number;
+            if (starts) {
+              lo = starts[from]!;
+              end = starts[to + 1]!;
+            } else {
+              lo = 0;
+              let hi = keys.length;
+              while (lo < hi) {
+                const mid = (lo + hi) >> 1;
+                if (keys[mid]! < from) lo = mid + 1;
+                else hi = mid;
+              }
+              end = keys.length;
+            }
+            for (let k = lo; k < end && keys[k]! <= to; k++) {
+              const j = order[k]!;
+              if (j >= i) continue;
+              // Cheap screen on the flat arrays (the same tolerances as sameProcess); the full
+              // classification runs only for the few candidates that pass.
+              const o = 5 * k;
+              if (!closeFlat(p, values[o]!, t.powerAbsW, powerRel) || !closeFlat(v, values[o + 1]!, 0, speedRel)) continue;
+              if (!closeFlat(qh, values[o + 2]!, t.hatchAbsUm, 0) || !closeFlat(layer, values[o + 3]!, t.layerAbsUm, 0) || !closeFlat(qd, values[o + 4]!, t.spotAbsUm, 0)) continue;
+              const kind = classifyPair(records[i]!, records[j]!, t, keyOf);
+              if (kind) push(j, i, kind);
+            }
+          }
         }
       }
     }

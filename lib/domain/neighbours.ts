@@ -253,6 +253,8 @@ export function forEachNeighbourhood(
   const bestD = new Float64Array(count);
   const bestId = new Float64Array(count);
   const bestIndex = new Int32Array(count);
+  // A cheap prefilter on the squared distance, a hair loose so the exact test below decides ties.
+  const radius2Loose = radius * radius * (1 + 1e-9);
   const stack = new Int32Array(256);
   const gaps = new Float64Array(256);
   const q = new Float64Array(4);
@@ -262,8 +264,12 @@ export function forEachNeighbourhood(
     const pt = points[i];
     if (!pt) continue;
     for (let d = 0; d < 4; d++) q[d] = coordOf(pt, d);
-    const qh = !Number.isNaN(q[2]!);
-    const qt = !Number.isNaN(q[3]!);
+    const q0 = q[0]!;
+    const q1 = q[1]!;
+    const q2 = q[2]!;
+    const q3 = q[3]!;
+    const qh = q2 === q2;
+    const qt = q3 === q3;
     let found = 0;
     for (const tree of trees.get(r.alloyKey)!) {
       const { xs, ids, start, end, dim, split, left, right } = tree;
@@ -280,11 +286,18 @@ export function forEachNeighbourhood(
             const index = tree.recordIndex[k]!;
             if (index === i) continue;
             const o = 4 * k;
-            let d2 = (q[0]! - xs[o]!) ** 2 + (q[1]! - xs[o + 1]!) ** 2;
-            const h = xs[o + 2]!;
-            if (qh && h === h) d2 += (q[2]! - h) ** 2;
-            const t = xs[o + 3]!;
-            if (qt && t === t) d2 += (q[3]! - t) ** 2;
+            const dp = q0 - xs[o]!;
+            const dv = q1 - xs[o + 1]!;
+            let d2 = dp * dp + dv * dv;
+            if (qh) {
+              const dh = q2 - xs[o + 2]!;
+              if (dh === dh) d2 += dh * dh;
+            }
+            if (qt) {
+              const dt = q3 - xs[o + 3]!;
+              if (dt === dt) d2 += dt * dt;
+            }
+            if (d2 > radius2Loose) continue;
             const dist = Math.sqrt(d2);
             if (dist > radius) continue;
             const id = ids[k]!;

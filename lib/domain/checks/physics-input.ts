@@ -46,6 +46,7 @@ export function physicsProvider(settings: CheckSettings, overrides: ReadonlyMap<
     ballingLengthToWidth: settingOf(settings, "physics.balling.lengthToWidth"),
     keyholeWidthToDepth: settingOf(settings, "physics.keyhole.widthToDepth"),
   };
+  const criteriaOptions = { thresholds };
   const materialOf = (r: CheckRecord): MaterialEntry => {
     let entry = materials.get(r.components);
     if (entry) return entry;
@@ -86,7 +87,7 @@ export function physicsProvider(settings: CheckSettings, overrides: ReadonlyMap<
       });
       const criteria = evaluateCriteria(
         { widthUm: pool.widthUm, depthUm: pool.depthUm, lengthUm: pool.lengthUm, melted: pool.melted, hatchSpacingUm: r.hatchSpacingUm, layerThicknessUm: r.layerThicknessUm, normalizedEnthalpy: enthalpy, meltingTemperatureK: m.meltingTemperatureK, boilingTemperatureK: m.boilingTemperatureK },
-        { thresholds },
+        criteriaOptions,
       );
       return {
         model: `Eagar–Tsai (${pool.method === "surface" ? "precomputed surface" : "direct integration"}), properties ${basis}`,
