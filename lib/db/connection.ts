@@ -5,12 +5,18 @@ import { resolveDatabaseLocation } from "./location";
 
 export type SqliteDatabase = Database.Database;
 
-/** Per-connection settings. WAL lets readers run beside one writer; foreign keys are off by default in SQLite. */
+/**
+ * Per-connection settings. WAL lets readers run beside one writer; foreign keys are off by default
+ * in SQLite. The page cache is raised from SQLite's default of about 2 MB to 64 MiB (a negative
+ * cache_size is in KiB, per the SQLite pragma documentation): a bulk import updates eleven record
+ * indexes, and with the small cache their pages are evicted and read back over and over.
+ */
 export function applyConnectionPragmas(db: SqliteDatabase): void {
   db.pragma("journal_mode = WAL");
   db.pragma("foreign_keys = ON");
   db.pragma("busy_timeout = 10000");
   db.pragma("synchronous = NORMAL");
+  db.pragma("cache_size = -65536");
 }
 
 /** Opens (creating its folder) a SQLite file with the project's pragmas. */

@@ -223,12 +223,12 @@ export const RECORD_INSERT_SQL = `INSERT INTO BuildRecord (${INSERT_COLUMNS.join
 
 /** Positional values for RECORD_INSERT_SQL. */
 export function recordInsertValues(r: RecordWrite, actorId: number | null, at: string): unknown[] {
-  const c = toColumns(r);
+  // Straight from the record (no intermediate column object): this runs once per imported row.
   return [
-    c.sourceId, c.locationPage, c.locationLabel, c.materialId, c.alloyKey, c.machine, c.laserPowerW, c.scanSpeedMmPerS, c.hatchSpacingUm,
-    c.layerThicknessUm, c.spotDiameterUm, c.spotDefinition, c.preheatC, c.atmosphere, c.scanStrategy, c.powderD10Um, c.powderD50Um,
-    c.powderD90Um, c.outcome, c.outcomeText, c.relativeDensityPct, c.volumetricEnergyJMm3, c.enteredValues, c.status, c.qualityScore,
-    c.importRunId, c.importFile, c.importRow, actorId, actorId, at, at,
+    r.sourceId, r.locationPage, r.locationLabel, r.materialId, r.alloyKey, r.machine, r.laserPowerW, r.scanSpeedMmPerS, r.hatchSpacingUm,
+    r.layerThicknessUm, r.spotDiameterUm, r.spotDefinition, r.preheatC, r.atmosphere, r.scanStrategy, r.powderD10Um, r.powderD50Um,
+    r.powderD90Um, r.outcome, r.outcomeText, r.relativeDensityPct, r.volumetricEnergyJMm3, JSON.stringify(r.enteredValues), r.status, r.qualityScore,
+    r.importRunId ?? null, r.importFile ?? null, r.importRow ?? null, actorId, actorId, at, at,
   ];
 }
 

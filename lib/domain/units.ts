@@ -504,6 +504,19 @@ function sentenceCase(text: string): string {
 }
 
 /**
+ * Whether a canonical value is inside the quantity's hard limits (checkHardLimit without the message).
+ *
+ * @example
+ * withinHardLimit(200, "laserPower"); // true
+ */
+export function withinHardLimit(value: number, quantity: Quantity): boolean {
+  const { min, minInclusive, max } = HARD_LIMITS[quantity];
+  if (!Number.isFinite(value)) return false;
+  if (minInclusive ? value < min : value <= min) return false;
+  return max === null || value <= max;
+}
+
+/**
  * Null when a canonical value is inside the quantity's hard limits, else a message that names
  * the limit and the canonical unit.
  *
@@ -512,6 +525,7 @@ function sentenceCase(text: string): string {
  * checkHardLimit(12000, "laserPower");  // "Laser power must be at most 10,000 W; got 12,000 W."
  */
 export function checkHardLimit(value: number, quantity: Quantity): string | null {
+  if (withinHardLimit(value, quantity)) return null;
   const { min, minInclusive, max } = HARD_LIMITS[quantity];
   const unit = CANONICAL_UNIT[quantity];
   const name = sentenceCase(LABELS[quantity]);

@@ -80,6 +80,14 @@ type RecordFields = z.output<typeof recordFieldsSchema>;
 const PARSE_MEMO_LIMIT = 20_000;
 const parseMemo = new Map<string, ReturnType<typeof parseQuantity>>();
 
+/**
+ * Reads one entered value with its unit (memoized). The one reading shared by validation,
+ * normalization and the bulk fast path.
+ */
+export function parseEnteredQuantity(value: string, unit: string, quantity: Quantity): ReturnType<typeof parseQuantity> {
+  return parseEntered(value, unit, quantity);
+}
+
 function parseEntered(value: string, unit: string, quantity: Quantity): ReturnType<typeof parseQuantity> {
   const key = `${quantity}\u0000${value}\u0000${unit}`;
   let parsed = parseMemo.get(key);
@@ -171,7 +179,11 @@ export function canonicalKeyOf(field: RecordQuantityField): keyof NormalizedQuan
  * Input must have passed `recordInputSchema`; unreadable values become null.
  * @example normalizeQuantities({ ...blank, laserPower: { value: "0.2", unit: "kW" } }).laserPowerW // 200
  */
-export function normalizeQuantities(r: Pick<RecordValues, RecordQuantityField | "spotDefinition" | "provenance">): NormalizedQuantities {
+export function normalizeQuantities(
+  r: Pick<RecordValues, RecordQuantityField | "spotDefinition" | "provenance">,
+  /** Values already read (the bulk fast path hands them over), so none is parsed twice. */
+  known?: Partial<Record<RecordQuantityField, Extract<ReturnType<typeof parseQuantity>, { ok: true }>>>,
+): NormalizedQuantities {
   const out: NormalizedQuantities = {
     laserPowerW: null, scanSpeedMmPerS: null, hatchSpacingUm: null, layerThicknessUm: null, spotDiameterUm: null,
     preheatC: null, powderD10Um: null, powderD50Um: null, powderD90Um: null, relativeDensityPct: null,
@@ -180,7 +192,7 @@ export function normalizeQuantities(r: Pick<RecordValues, RecordQuantityField | 
   for (const field of RECORD_QUANTITY_FIELD_NAMES) {
     const { value, unit } = r[field];
     if (value === "") continue;
-    const parsed = parseEntered(value, unit, RECORD_QUANTITY_FIELDS[field]);
+    const parsed = known?.[field] ?? parseEntered(value, unit, RECORD_QUANTITY_FIELDS[field]);
     if (!parsed.ok) continue;
     let canonical = parsed.value;
     if (field === "spotDiameter" && r.spotDefinition) canonical = toOneOverE2Diameter(canonical, r.spotDefinition as SpotDefinition);

@@ -3,6 +3,7 @@ import { parseComposition } from "../domain/composition";
 import type { MaterialSpec } from "../db/materials";
 import type { RecordWrite } from "../db/records";
 import { normalizeQuantities, type RecordValues } from "../schemas/record";
+import type { ParsedQuantities } from "../schemas/record-fast";
 import type { FieldErrors } from "../schemas/issues";
 
 export type PreparedRecord = { ok: true; write: Omit<RecordWrite, "materialId">; material: MaterialSpec } | { ok: false; fieldErrors: FieldErrors };
@@ -12,15 +13,28 @@ export type PreparedRecord = { ok: true; write: Omit<RecordWrite, "materialId">;
  * grade's nominal composition, or the measured composition the user typed). An alloy name the
  * grade library does not know is kept as written with no composition; the checks flag it.
  */
-export function prepareRecord(values: RecordValues): PreparedRecord {
-  const normalized = normalizeQuantities(values);
+export function prepareRecord(values: RecordValues, parsed?: ParsedQuantities): PreparedRecord {
+  const normalized = normalizeQuantities(values, parsed);
   const material = materialFor(values.alloy, values.composition);
   if (!material.ok) return { ok: false, fieldErrors: { composition: [material.message] } };
+  // Every field written out (no spread): one object shape for every record of a batch.
+  const n = normalized;
   return {
     ok: true,
     material: material.spec,
     write: {
-      ...normalized,
+      laserPowerW: n.laserPowerW,
+      scanSpeedMmPerS: n.scanSpeedMmPerS,
+      hatchSpacingUm: n.hatchSpacingUm,
+      layerThicknessUm: n.layerThicknessUm,
+      spotDiameterUm: n.spotDiameterUm,
+      preheatC: n.preheatC,
+      powderD10Um: n.powderD10Um,
+      powderD50Um: n.powderD50Um,
+      powderD90Um: n.powderD90Um,
+      relativeDensityPct: n.relativeDensityPct,
+      volumetricEnergyJMm3: n.volumetricEnergyJMm3,
+      enteredValues: n.enteredValues,
       sourceId: values.sourceId,
       locationPage: values.locationPage,
       locationLabel: values.locationLabel,
