@@ -56,7 +56,12 @@ describe("nearestNeighbours", () => {
     expect(n.has(5)).toBe(false);
   });
 
-  test("property: the grid search equals brute force", () => {
+  // Small sets are one leaf; sets of a few hundred records make trees several levels deep, with
+  // splits on every coordinate and ties on the discrete layer values.
+  test.each([
+    { size: 60, runs: 200 },
+    { size: 600, runs: 40 },
+  ])("property: the tree search equals brute force (up to $size records)", ({ size, runs }) => {
     const arb = fc.record({
       alloyKey: fc.constantFrom("316L", "IN718"),
       laserPowerW: fc.oneof(fc.double({ min: 50, max: 400, noNaN: true }), fc.constant(null)),
@@ -66,7 +71,7 @@ describe("nearestNeighbours", () => {
       outcome: fc.constantFrom("dense", "keyhole", "lack_of_fusion", "unknown"),
     });
     fc.assert(
-      fc.property(fc.array(arb, { maxLength: 60 }), fc.integer({ min: 1, max: 9 }), fc.double({ min: 0.3, max: 3, noNaN: true }), (rows, count, radius) => {
+      fc.property(fc.array(arb, { maxLength: size, minLength: size / 2 }), fc.integer({ min: 1, max: 9 }), fc.double({ min: 0.3, max: 3, noNaN: true }), (rows, count, radius) => {
         const records = rows.map((r, i) => ({ ...base, ...r, id: i + 1 }) as CheckRecord);
         const p = { ...params, count, radius };
         const grid = nearestNeighbours(records, p);
@@ -74,7 +79,7 @@ describe("nearestNeighbours", () => {
         expect([...grid.keys()].sort((a, b) => a - b)).toEqual([...brute.keys()].sort((a, b) => a - b));
         for (const [id, list] of brute) expect(grid.get(id)!.map((x) => x.id)).toEqual(list.map((x) => x.id));
       }),
-      { numRuns: 200 },
+      { numRuns: runs },
     );
   });
 

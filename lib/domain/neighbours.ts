@@ -107,7 +107,11 @@ interface KdTree {
   right: Int32Array;
 }
 
-const LEAF_SIZE = 8;
+/**
+ * Points per leaf. Measured over 100k records (4 alloys, all four coordinates): 32 took about two
+ * thirds of the CPU time of 8; a flat scan of a leaf is cheaper than the node steps it saves.
+ */
+const LEAF_SIZE = 32;
 
 function coordOf(pt: Point, d: number): number {
   return d === 0 ? pt.p : d === 1 ? pt.v : d === 2 ? (pt.h ?? Number.NaN) : (pt.t ?? Number.NaN);
