@@ -120,8 +120,9 @@ interface Dimensionless {
   note: string | null;
 }
 
-// Memo of recent dimensionless solutions: repeated parameter sets (a table re-rendered, a record
-// re-checked) cost one map lookup. Bounded; cleared when full.
+// Memo of recent direct integrations (each costs milliseconds): repeated parameter sets (a table
+// re-rendered, a record re-checked) cost one map lookup. Surface readings are cheaper than the
+// memo's key would be, so they are not kept. Bounded; cleared when full.
 const MEMO_LIMIT = 4096;
 const memo = new Map<string, Dimensionless>();
 
@@ -132,28 +133,28 @@ function solveDirect(u: number, theta: number, note: string | null): Dimensionle
   return { halfWidth: pool.halfWidth, depth: pool.depth, length: pool.length, peakG: peak.peakG, melted: true, method: "direct", note };
 }
 
-function solveDimensionless(u: number, theta: number, method: SolveMethod, surface: EagarTsaiSurface | undefined): Dimensionless {
-  const key = `${method}|${u}|${theta}`;
-  const cached = surface === undefined ? memo.get(key) : undefined;
+function solveDirectMemo(u: number, theta: number, note: string | null, memoize: boolean): Dimensionless {
+  if (!memoize) return solveDirect(u, theta, note);
+  const key = `${note === null ? "direct" : "fallback"}|${u}|${theta}`;
+  const cached = memo.get(key);
   if (cached) return cached;
-  let result: Dimensionless;
-  if (method === "direct") {
-    result = solveDirect(u, theta, null);
-  } else {
-    const found = (surface ?? shippedSurface()).lookup(u, theta);
-    if (found.kind === "pool") {
-      result = { ...found.pool, melted: true, method: "surface", note: null };
-    } else if (found.kind === "no-melting") {
-      result = { halfWidth: 0, depth: 0, length: 0, peakG: found.peakG, melted: false, method: "surface", note: null };
-    } else {
-      result = solveDirect(u, theta, `solved by direct integration: ${found.reason}`);
-    }
-  }
-  if (surface === undefined) {
-    if (memo.size >= MEMO_LIMIT) memo.clear();
-    memo.set(key, result);
-  }
+  const result = solveDirect(u, theta, note);
+  if (memo.size >= MEMO_LIMIT) memo.clear();
+  memo.set(key, result);
   return result;
+}
+
+function solveDimensionless(u: number, theta: number, method: SolveMethod, surface: EagarTsaiSurface | undefined): Dimensionless {
+  // A caller's own surface (tests, calibration) is never memoized: its answers may differ.
+  const memoize = surface === undefined;
+  if (method === "direct") return solveDirectMemo(u, theta, null, memoize);
+  const found = (surface ?? shippedSurface()).lookup(u, theta);
+  if (found.kind === "pool") {
+    const p = found.pool;
+    return { halfWidth: p.halfWidth, depth: p.depth, length: p.length, peakG: p.peakG, melted: true, method: "surface", note: null };
+  }
+  if (found.kind === "no-melting") return { halfWidth: 0, depth: 0, length: 0, peakG: found.peakG, melted: false, method: "surface", note: null };
+  return solveDirectMemo(u, theta, `solved by direct integration: ${found.reason}`, memoize);
 }
 
 /**
