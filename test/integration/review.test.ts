@@ -220,4 +220,15 @@ describe("settings and quality", () => {
     const flags = await flagsOf(r.data.ids[1]!);
     expect(flags.map((f) => [f.code, f.import_file, f.import_row])).toEqual([["duplicate.exact", "batch.csv", 2]]);
   });
+
+  test("a large batch (consecutive ids, read as one range) is checked in full: every record scored, its repeat flagged", async () => {
+    const rows = Array.from({ length: 800 }, (_, i) => mixedUnitRecord(sourceId, { laserPower: { value: String(100 + i * 0.25), unit: "W" } }));
+    rows.push(mixedUnitRecord(sourceId, { laserPower: { value: "150", unit: "W" } })); // repeats row 201
+    const r = await insertRecordsBulk(rows, actor, { importFile: "large.csv" });
+    if (!r.ok) throw new Error(r.error.message);
+    const unscored = sqlite().prepare(`SELECT COUNT(*) AS n FROM BuildRecord WHERE id BETWEEN ? AND ? AND qualityScore IS NULL`).get(r.data.ids[0], r.data.ids[800]) as { n: number };
+    expect(unscored.n).toBe(0);
+    const flags = await flagsOf(r.data.ids[800]!);
+    expect(flags.filter((f) => f.code === "duplicate.exact").map((f) => [f.import_file, f.import_row])).toEqual([["large.csv", 801]]);
+  });
 });
