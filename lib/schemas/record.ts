@@ -78,7 +78,9 @@ type RecordFields = z.output<typeof recordFieldsSchema>;
 // read twice (validation, then normalization): a bounded memo of parse results keeps that cheap.
 // Results are plain immutable data, so sharing them is safe.
 const PARSE_MEMO_LIMIT = 20_000;
-const parseMemo = new Map<string, ReturnType<typeof parseQuantity>>();
+/** quantity → unit → value text → result: nested maps, so a lookup builds no key string. */
+const parseMemo = new Map<Quantity, Map<string, Map<string, ReturnType<typeof parseQuantity>>>>();
+let parseMemoSize = 0;
 
 /**
  * Reads one entered value with its unit (memoized). The one reading shared by validation,
@@ -89,12 +91,19 @@ export function parseEnteredQuantity(value: string, unit: string, quantity: Quan
 }
 
 function parseEntered(value: string, unit: string, quantity: Quantity): ReturnType<typeof parseQuantity> {
-  const key = `${quantity}\u0000${value}\u0000${unit}`;
-  let parsed = parseMemo.get(key);
+  let byUnit = parseMemo.get(quantity);
+  if (!byUnit) parseMemo.set(quantity, (byUnit = new Map()));
+  let byValue = byUnit.get(unit);
+  if (!byValue) byUnit.set(unit, (byValue = new Map()));
+  let parsed = byValue.get(value);
   if (parsed === undefined) {
     parsed = parseQuantity(unit ? `${value} ${unit}` : value, quantity);
-    if (parseMemo.size >= PARSE_MEMO_LIMIT) parseMemo.clear();
-    parseMemo.set(key, parsed);
+    if (parseMemoSize >= PARSE_MEMO_LIMIT) {
+      for (const m of parseMemo.values()) for (const v of m.values()) v.clear();
+      parseMemoSize = 0;
+    }
+    byValue.set(value, parsed);
+    parseMemoSize++;
   }
   return parsed;
 }
