@@ -15,6 +15,7 @@ import { scoreSource } from "../domain/source-quality";
 import { appendAuditRaw } from "../db/audit-raw";
 import { loadCheckRecords, loadPropertyOverrides, loadSourceAttributes, recordKeys, reopenAcceptedRecords, writeQualityScores, type CheckInputRow } from "../db/check-inputs";
 import { sqlite, type SqliteDatabase } from "../db/connection";
+import type { RecordWrite } from "../db/records";
 import { flagFingerprint, flagsForRun, insertFlag, recordsWithOpenFlagsRelatedTo, refreshFlag, reopenFlag, resolveFlagAuto, type FlagForRun, type FlagWrite } from "../db/flags";
 import { distinctPairKeys, pairKey } from "../db/pairs";
 import { z } from "zod";
@@ -172,6 +173,35 @@ export function runChecksSync(scope: "all" | readonly number[], options: RunChec
     summary.ms = Math.round(performance.now() - started);
     return summary;
   })();
+}
+
+/**
+ * Quality scores for records about to be written in bulk, the same as a check run would give
+ * (source score × completeness under the current settings), so the run that follows the write
+ * finds them current and rewrites none. Source scores are read once per source.
+ */
+export function qualityScorer(db: SqliteDatabase = sqlite()): (w: Omit<RecordWrite, "materialId">) => number {
+  const settings = currentCheckSettingsSync(db).values;
+  const sourceScores = new Map<number, number>();
+  return (w) => {
+    let score = sourceScores.get(w.sourceId);
+    if (score === undefined) {
+      const attributes = loadSourceAttributes(db, [w.sourceId]).get(w.sourceId);
+      score = attributes ? scoreSource(attributes, settings).score : 0;
+      sourceScores.set(w.sourceId, score);
+    }
+    const entered = w.enteredValues as Record<string, { provenance?: string } | undefined>;
+    let allReported = true;
+    for (const key in entered) if (entered[key]?.provenance !== "reported") allReported = false;
+    const completeness = completenessValueOf(
+      {
+        laserPowerW: w.laserPowerW, scanSpeedMmPerS: w.scanSpeedMmPerS, hatchSpacingUm: w.hatchSpacingUm, layerThicknessUm: w.layerThicknessUm,
+        spotDiameterUm: w.spotDiameterUm, powderD50Um: w.powderD50Um, relativeDensityPct: w.relativeDensityPct, outcome: w.outcome, entered, enteredAllReported: allReported,
+      },
+      settings,
+    );
+    return recordQuality(score, completeness);
+  };
 }
 
 /**

@@ -13,7 +13,7 @@ import { mapImportRow, type RowProblem } from "../domain/import-row";
 import { normalizeBox, type PdfBox } from "../domain/pdf-table";
 import { looksLikeHeader, splitTableText, type PasteSplitter } from "../domain/table-text";
 import { requireRole, type Actor } from "./actor";
-import { checksAfterSave } from "./checks";
+import { checksAfterSave, qualityScorer } from "./checks";
 import { prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
 import { fail, guard, ok, type Result } from "./result";
 
@@ -330,10 +330,12 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
   const location = input.kind === "pdf_table" ? pdfLocation(input) : null;
   const pending: PreparedBulkRow[] = [];
   const materials = new Map<string, number>();
+  let quality: ReturnType<typeof qualityScorer> | undefined;
 
   const flush = () => {
     if (!writer || !pending.length) return;
-    const ids = writePreparedRows(writer.db, pending, writer.actor.id, writer.at, { importFile: writer.fileName, importRunId: writer.runId, materials });
+    quality ??= qualityScorer(writer.db);
+    const ids = writePreparedRows(writer.db, pending, writer.actor.id, writer.at, { importFile: writer.fileName, importRunId: writer.runId, materials, quality });
     pending.forEach((p, i) => writer.ids.push({ row: p.row, id: ids[i]! }));
     pending.length = 0;
   };

@@ -5,7 +5,7 @@ import { insertRecordsRaw, type RecordWrite } from "../db/records";
 import { recordInputSchema } from "../schemas/record";
 import { parseRecordInputFast } from "../schemas/record-fast";
 import { requireRole, type Actor } from "./actor";
-import { checksAfterSave } from "./checks";
+import { checksAfterSave, qualityScorer } from "./checks";
 import { prepareRecord } from "./record-write";
 import { fail, guard, ok, type Result } from "./result";
 
@@ -78,6 +78,8 @@ export interface WritePreparedOptions {
   importRunId?: number | null;
   /** Shared across calls of one batch so each material is looked up once. */
   materials: Map<string, number>;
+  /** Quality score of each row as the checks would compute it (see qualityScorer); null when absent. */
+  quality?: (w: Omit<RecordWrite, "materialId">) => number;
 }
 
 /**
@@ -93,6 +95,7 @@ export function writePreparedRows(db: SqliteDatabase, rows: readonly PreparedBul
     r.importFile = options.importFile ?? null;
     r.importRunId = options.importRunId ?? null;
     r.importRow = options.importFile ? w.row : null;
+    if (options.quality) r.qualityScore = options.quality(r);
     return r;
   });
   return insertRecordsRaw(db, full, actorId, at);
@@ -125,7 +128,7 @@ export async function insertRecordsBulk(inputs: readonly unknown[], actor: Actor
         if (!db.prepare(`SELECT 1 FROM Source WHERE id = ?`).get(id)) return { missingSource: id };
       }
       const materials = new Map<string, number>();
-      const writeOptions = { importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, materials };
+      const writeOptions = { importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, materials, quality: qualityScorer(db) };
       let ids: number[];
       if (options.rowMeta) {
         ids = writes.map((w) => {

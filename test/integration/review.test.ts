@@ -221,6 +221,25 @@ describe("settings and quality", () => {
     expect(flags.map((f) => [f.code, f.import_file, f.import_row])).toEqual([["duplicate.exact", "batch.csv", 2]]);
   });
 
+  test("bulk writes store the quality score a check run computes (so the run rewrites none)", async () => {
+    const rows = [
+      mixedUnitRecord(sourceId, { laserPower: { value: "210", unit: "W" } }),
+      mixedUnitRecord(sourceId, { laserPower: { value: "220", unit: "W" }, spotDiameter: { value: "", unit: "" } }),
+      mixedUnitRecord(sourceId, { laserPower: { value: "230", unit: "W" }, provenance: { spotDiameter: "assumed", hatchSpacing: "derived" } }),
+      mixedUnitRecord(sourceId, { laserPower: { value: "240", unit: "W" }, outcome: "unknown", relativeDensity: { value: "", unit: "" } }),
+    ];
+    const r = await insertRecordsBulk(rows, actor, { deferChecks: true });
+    if (!r.ok) throw new Error(r.error.message);
+    const read = () => (sqlite().prepare(`SELECT qualityScore FROM BuildRecord WHERE id IN (${r.data.ids.join(",")}) ORDER BY id`).pluck().all() as (number | null)[]);
+    const atWrite = read();
+    expect(atWrite.every((q) => typeof q === "number" && q > 0)).toBe(true);
+    expect(new Set(atWrite).size).toBeGreaterThan(1); // the rows differ in completeness
+    const run = await runChecks({ recordIds: r.data.ids }, actor);
+    if (!run.ok) throw new Error(run.error.message);
+    expect(run.data.qualityUpdated).toBe(0);
+    expect(read()).toEqual(atWrite);
+  });
+
   test("a large batch (consecutive ids, read as one range) is checked in full: every record scored, its repeat flagged", async () => {
     const rows = Array.from({ length: 800 }, (_, i) => mixedUnitRecord(sourceId, { laserPower: { value: String(100 + i * 0.25), unit: "W" } }));
     rows.push(mixedUnitRecord(sourceId, { laserPower: { value: "150", unit: "W" } })); // repeats row 201
