@@ -86,16 +86,23 @@ export const checksBench: BenchSuite = async () => {
   const tolerances = tolerancesFrom(settings);
   const small = records.slice(0, SMALL);
   findDuplicatePairs(small, tolerances); // warm-up
-  const smallMs = fastest(() => findDuplicatePairs(small, tolerances), 15);
-  const largeMs = fastest(() => findDuplicatePairs(records, tolerances), 7);
+  findDuplicatePairs(records, tolerances);
+  // Interleaved rounds, so a burst of load on the shared machine falls on both sizes alike; the
+  // fastest of each is the figure least disturbed.
+  let smallMs = Number.POSITIVE_INFINITY;
+  let largeMs = Number.POSITIVE_INFINITY;
+  for (let round = 0; round < 9; round++) {
+    smallMs = Math.min(smallMs, fastest(() => findDuplicatePairs(small, tolerances), 3));
+    largeMs = Math.min(largeMs, fastest(() => findDuplicatePairs(records, tolerances), 1));
+  }
   const growth = largeMs / smallMs;
   figures.push({
-    name: `duplicate detection over ${N.toLocaleString("en")} records (exact, near, label conflicts; blocking on alloy, layer and a (P, v) grid), fastest of 7`,
+    name: `duplicate detection over ${N.toLocaleString("en")} records (exact, near, label conflicts; blocking on alloy, layer and a (P, v) grid), fastest of 9 rounds interleaved with the 10k runs`,
     value: largeMs,
     unit: "ms",
     target: `<= 1000 ms; growth from ${SMALL.toLocaleString("en")} <= 15x`,
     pass: largeMs <= 1000 && growth <= 15,
-    baseline: { name: `the same over the first ${SMALL.toLocaleString("en")} records, fastest of 15`, value: smallMs, unit: "ms" },
+    baseline: { name: `the same over the first ${SMALL.toLocaleString("en")} records, fastest of 27`, value: smallMs, unit: "ms" },
     ratio: { value: growth, target: "<= 15", pass: growth <= 15 },
   });
 
