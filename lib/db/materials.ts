@@ -39,8 +39,13 @@ export async function findOrCreateMaterial(tx: Tx, m: MaterialSpec): Promise<num
 }
 
 /** The same on the raw connection, for bulk writes already inside a better-sqlite3 transaction. */
+// Bulk writes hand the same spec object for every row of one alloy (record-write memoizes them):
+// its fingerprint is worked out once.
+const fingerprintOf = new WeakMap<MaterialSpec, string>();
+
 export function findOrCreateMaterialRaw(db: SqliteDatabase, m: MaterialSpec, cache: Map<string, number>): number {
-  const fingerprint = materialFingerprint(m);
+  let fingerprint = fingerprintOf.get(m);
+  if (fingerprint === undefined) fingerprintOf.set(m, (fingerprint = materialFingerprint(m)));
   const cached = cache.get(fingerprint);
   if (cached !== undefined) return cached;
   const found = db.prepare(`SELECT id FROM Material WHERE fingerprint = ?`).get(fingerprint) as { id: number } | undefined;
