@@ -591,6 +591,8 @@ async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOp
     }
     db.exec("COMMIT");
     open = false;
+    // The check run below uses the shared connection: this one's page cache can go back now.
+    db.pragma("shrink_memory");
     let checks: ImportCommit["checks"] = null;
     if (!options.deferChecks && imported > 0) {
       options.onProgress?.({ phase: "checking", rowsRead: analysis.rowCount, rowsWritten: imported, rowsTotal: imported });
