@@ -503,23 +503,9 @@ export async function commitImport(input: TableInput, options: ImportOptions, ac
     // A connection of its own: its transaction spans many turns of the event loop, and other
     // requests on the shared connection must not run inside it.
     const db = openSqlite(filePath);
-    // This connection's commit does not checkpoint the write-ahead log: the check run that follows
-    // commits on the shared connection and checkpoints once for both (copying the pages of a large
-    // import twice cost about 0.3 s). Without that run the log is checkpointed here.
-    db.pragma("wal_autocheckpoint = 0");
-    let checked = false;
     try {
-      const result = await commitOn(db, input, options, actor);
-      checked = result.ok && result.data.checks !== null;
-      return result;
+      return await commitOn(db, input, options, actor);
     } finally {
-      if (!checked) {
-        try {
-          db.pragma("wal_checkpoint(PASSIVE)");
-        } catch {
-          // The committed rows are safe in the log; the next commit's automatic checkpoint retries.
-        }
-      }
       db.close();
     }
   });
