@@ -5,7 +5,7 @@
 #   eval "$(bash scripts/test-postgres.sh start)"   # prints export lines: MELTLEDGER_TEST_PG_URL, MELTLEDGER_TEST_PG_DIR
 #   bash scripts/test-postgres.sh stop "$MELTLEDGER_TEST_PG_DIR"
 #
-# PORT picks the port (default: one the kernel reports free). As root the server runs as the
+# MELTLEDGER_TEST_PG_PORT picks the port (default: one the kernel reports free). As root the server runs as the
 # `postgres` user (PostgreSQL refuses to run as root). Messages go to stderr; stdout carries only
 # the export lines, so a failed start leaves MELTLEDGER_TEST_PG_URL unset and prints why.
 set -u
@@ -26,7 +26,7 @@ start() {
   local bin dir port
   bin=$(pg_bin) || { echo "[postgres] no initdb/pg_ctl under /usr/lib/postgresql/*/bin (install the Debian package postgresql)" >&2; return 1; }
   dir=$(mktemp -d "${TMPDIR:-/tmp}/meltledger-pg-XXXXXX")
-  port=${PORT:-$(node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})')}
+  port=${MELTLEDGER_TEST_PG_PORT:-$(node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})')}
   if [ "$(id -u)" = "0" ]; then chown postgres "$dir"; fi
   chmod 700 "$dir"
   if ! as_owner "$bin/initdb" -D "$dir/data" -U meltledger --auth=trust --encoding=UTF8 --locale=C.UTF-8 >"$dir/initdb.log" 2>&1; then

@@ -58,7 +58,7 @@ export class EngineNotSupportedError extends Error {
   }
 }
 
-function readEnv(env: NodeJS.ProcessEnv) {
+function readEnv(env: Record<string, string | undefined>) {
   const parsed = envSchema.safeParse(env);
   if (!parsed.success) {
     throw new TypeError(`resolveDatabaseLocation: invalid environment: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`);
@@ -71,7 +71,7 @@ function readEnv(env: NodeJS.ProcessEnv) {
  * relative to the working directory) is SQLite; "postgresql://…" or "postgres://…" is PostgreSQL.
  * @example resolveDatabaseTarget({ DATABASE_URL: "postgres://db/ml" }).engine // "postgresql"
  */
-export function resolveDatabaseTarget(env: NodeJS.ProcessEnv = process.env, cwd = process.cwd()): DatabaseTarget {
+export function resolveDatabaseTarget(env: Record<string, string | undefined> = process.env, cwd = process.cwd()): DatabaseTarget {
   const data = readEnv(env);
   const url = data.DATABASE_URL ?? "file:./data/meltledger.db";
   if (databaseEngineOf(url) === "postgresql") {
@@ -87,7 +87,7 @@ export function resolveDatabaseTarget(env: NodeJS.ProcessEnv = process.env, cwd 
  * EngineNotSupportedError for a PostgreSQL URL rather than opening some other file.
  * @example resolveDatabaseLocation({ DATABASE_URL: "file:/tmp/x.db" }).filePath // "/tmp/x.db"
  */
-export function resolveDatabaseLocation(env: NodeJS.ProcessEnv = process.env, cwd = process.cwd()): DatabaseLocation {
+export function resolveDatabaseLocation(env: Record<string, string | undefined> = process.env, cwd = process.cwd()): DatabaseLocation {
   const target = resolveDatabaseTarget(env, cwd);
   if (target.engine === "postgresql") throw new EngineNotSupportedError(target.redactedUrl);
   return { filePath: target.filePath, dataDir: target.dataDir };

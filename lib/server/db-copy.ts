@@ -94,7 +94,7 @@ export async function copyDatabase(request: DbCopyRequest, options: { batchRows?
   return guard(async () => {
     const bad = checkUrls(request);
     if (bad) return bad;
-    const { filePath, dataDir } = resolveDatabaseLocation({ ...process.env, DATABASE_URL: request.from });
+    const { filePath, dataDir } = resolveDatabaseLocation({ DATABASE_URL: request.from });
     if (!existsSync(filePath)) return fail("not_found", `There is no SQLite database at ${filePath}.`);
     const filesTo = path.resolve(request.filesTo);
     const source = openSqlite(filePath, { readonly: true });
