@@ -232,13 +232,27 @@ async function copyTable(source: SqliteDatabase, target: PostgresClient, p: Tabl
   return { rows, sha256: hash.digest("hex") };
 }
 
-async function hashTarget(target: PostgresClient, p: TablePlan): Promise<{ rows: number; sha256: string }> {
+async function hashTarget(target: PostgresClient, p: TablePlan, pageRows: number): Promise<{ rows: number; sha256: string }> {
   const hash = createHash("sha256");
+  const pkIndex = p.columns.indexOf(p.primaryKey);
   // "C" collation orders text keys by bytes, as SQLite's BINARY collation does
-  const order = p.types[p.columns.indexOf(p.primaryKey)] === "text" ? `${q(p.primaryKey)} COLLATE "C"` : q(p.primaryKey);
-  const result = await target.query({ text: `SELECT ${p.columns.map(q).join(", ")} FROM ${q(p.table)} ORDER BY ${order}`, rowMode: "array", types: TARGET_TYPES });
-  for (const raw of result.rows as unknown[][]) hash.update(rowLine(raw.map((v, i) => fromPostgres(p.types[i]!, v))));
-  return { rows: result.rows.length, sha256: hash.digest("hex") };
+  const key = p.types[pkIndex] === "text" ? `${q(p.primaryKey)} COLLATE "C"` : q(p.primaryKey);
+  const select = `SELECT ${p.columns.map(q).join(", ")} FROM ${q(p.table)}`;
+  let rows = 0;
+  let last: unknown = undefined;
+  for (;;) {
+    const page = await target.query({
+      text: `${select}${last === undefined ? "" : ` WHERE ${key} > $1`} ORDER BY ${key} LIMIT ${pageRows}`,
+      values: last === undefined ? [] : [last],
+      rowMode: "array",
+      types: TARGET_TYPES,
+    });
+    for (const raw of page.rows as unknown[][]) hash.update(rowLine(raw.map((v, i) => fromPostgres(p.types[i]!, v))));
+    rows += page.rows.length;
+    if (page.rows.length < pageRows) break;
+    last = (page.rows[page.rows.length - 1] as unknown[])[pkIndex];
+  }
+  return { rows, sha256: hash.digest("hex") };
 }
 
 /** Row counts of every table in COPY_ORDER that has rows. */
@@ -252,8 +266,12 @@ export async function nonEmptyTables(target: PostgresClient): Promise<Record<str
 }
 
 export interface CopyOptions {
-  /** Rows per INSERT statement (capped by PostgreSQL's parameter limit). */
+  /** Rows per INSERT statement (capped by PostgreSQL's parameter limit); default 1000. */
   batchRows?: number;
+  /** Rows per query when reading the copy back (keyset pages keep memory flat however large a table is); default 5000. */
+  readPageRows?: number;
+  /** Called after each table is written and read back. */
+  onTable?: (report: TableCopyReport) => void;
   /** Runs after the rows are written and verified, before COMMIT; a throw rolls everything back (the stored files are copied here). */
   beforeCommit?: (reports: TableCopyReport[]) => Promise<void>;
 }
@@ -286,8 +304,10 @@ export async function copySqliteToPostgres(source: SqliteDatabase, target: Postg
           // the next id is one past the largest copied id (or 1 for an empty table)
           await target.query(`SELECT setval(pg_get_serial_sequence($1, $2), COALESCE((SELECT MAX(${q(p.primaryKey)}) FROM ${q(p.table)}), 1), (SELECT COUNT(*) > 0 FROM ${q(p.table)}))`, [q(p.table), p.primaryKey]);
         }
-        const back = await hashTarget(target, p);
-        reports.push({ table: p.table, sourceRows: copied.rows, targetRows: back.rows, sourceSha256: copied.sha256, targetSha256: back.sha256 });
+        const back = await hashTarget(target, p, Math.max(1, options.readPageRows ?? 5000));
+        const report = { table: p.table, sourceRows: copied.rows, targetRows: back.rows, sourceSha256: copied.sha256, targetSha256: back.sha256 };
+        reports.push(report);
+        options.onTable?.(report);
       }
       const differing = reports.filter((r) => r.sourceRows !== r.targetRows || r.sourceSha256 !== r.targetSha256);
       if (differing.length > 0) {

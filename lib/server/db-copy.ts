@@ -90,7 +90,7 @@ function checkUrls(request: DbCopyRequest): Result<never> | null {
 }
 
 /** Copies the SQLite database `from` into the empty PostgreSQL database `to`, and its stored files into `filesTo`. */
-export async function copyDatabase(request: DbCopyRequest, options: { batchRows?: number } = {}): Promise<Result<DbCopySummary>> {
+export async function copyDatabase(request: DbCopyRequest, options: { batchRows?: number; readPageRows?: number; onProgress?: (message: string) => void } = {}): Promise<Result<DbCopySummary>> {
   return guard(async () => {
     const bad = checkUrls(request);
     if (bad) return bad;
@@ -120,11 +120,15 @@ export async function copyDatabase(request: DbCopyRequest, options: { batchRows?
       try {
         return await withPostgres(request.to, async (client) => {
           const migrated = await migratePostgres(client);
+          if (migrated.applied.length) options.onProgress?.(`PostgreSQL migrations applied: ${migrated.applied.join(", ")}`);
           let reports: TableCopyReport[];
           try {
             reports = await copySqliteToPostgres(source, client, {
               batchRows: options.batchRows,
+              readPageRows: options.readPageRows,
+              onTable: (r) => options.onProgress?.(`${r.table}: ${r.targetRows} row(s) written and read back`),
               beforeCommit: async () => {
+                options.onProgress?.(`copying ${shas.length} stored file(s) to ${filesTo}`);
                 files = await copyStoredFiles(shas, dataDir, filesTo, added);
               },
             });

@@ -4,21 +4,25 @@
 // sha256sum), and every failure — a non-empty target, a value PostgreSQL refuses, a changed value,
 // a failure at COMMIT — leaves the target database and files folder as they were.
 import { execFileSync } from "node:child_process";
-import { cpSync, existsSync, mkdtempSync, readdirSync, rmSync } from "node:fs";
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import Database from "better-sqlite3";
 import { afterAll, beforeAll, expect, test } from "vitest";
 import { disconnectPrisma, prismaReady } from "@/lib/db/client";
-import { closeSqlite, sqlite } from "@/lib/db/connection";
+import { closeSqlite, openSqlite, sqlite } from "@/lib/db/connection";
 import { COPY_ORDER } from "@/lib/db/copy-to-postgres";
+import { migrate } from "@/lib/db/migrate";
 import { localActor } from "@/lib/server/actor";
+import { copyDatabase } from "@/lib/server/db-copy";
 import { attachPdfToSource } from "@/lib/server/files";
 import { cliFor } from "../support/cli";
 import { inventedPaperPdf } from "../support/pdf";
 import { describePostgres, useTempPostgres, withClient } from "../support/postgres";
 import { useTempDatabase } from "../support/temp-db";
 
+// SHA-256 of zero bytes (NIST FIPS 180-4 test vectors; also `sha256sum /dev/null`)
+const EMPTY_SHA256 = "e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855";
 const tmp = useTempDatabase("copy");
 const cli = cliFor(tmp.filePath);
 const scratch = mkdtempSync(path.join(os.tmpdir(), "meltledger-copy-scratch-"));
@@ -235,3 +239,37 @@ function cliWithUrl(url: string) {
     }
   };
 }
+
+describePostgres("db copy in small batches and pages", () => {
+  const server = useTempPostgres("copypages");
+
+  test("odd batch and page sizes give the same rows and hashes as the defaults", async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), "meltledger-copy-pages-"));
+    try {
+      const file = path.join(dir, "meltledger.db");
+      const db = openSqlite(file);
+      try {
+        migrate(db);
+        // DateTime as Prisma writes it (ISO text), as CURRENT_TIMESTAMP writes it, and as Unix milliseconds
+        db.prepare(`INSERT INTO Source (kind, title, titleKey, updatedAt) VALUES ('report', 'A', 'a', '2026-01-01T00:00:00.000Z'), ('report', 'B', 'b', '2026-01-02 03:04:05')`).run();
+        db.prepare(`INSERT INTO Material (designation, alloyKey, fingerprint) VALUES ('316L', '316L', 'fp')`).run();
+        const insert = db.prepare(`INSERT INTO BuildRecord (sourceId, materialId, alloyKey, laserPowerW, scanSpeedMmPerS, updatedAt) VALUES (?, 1, '316L', ?, ?, ?)`);
+        for (let i = 0; i < 61; i++) insert.run(1 + (i % 2), 100 + i * 3.3, i % 5 === 0 ? null : 500 + i, i % 2 ? "2026-02-01T10:00:00.123Z" : 1767225600000 + i);
+        db.prepare(`INSERT INTO StoredFile (sha256, sizeBytes, mimeType) VALUES (?, 0, 'text/csv')`).run(EMPTY_SHA256);
+      } finally {
+        db.close();
+      }
+      mkdirSync(path.join(dir, "files", EMPTY_SHA256.slice(0, 2)), { recursive: true });
+      writeFileSync(path.join(dir, "files", EMPTY_SHA256.slice(0, 2), EMPTY_SHA256), "");
+
+      const small = await copyDatabase({ from: `file:${file}`, to: await server.createDatabase(), filesTo: path.join(dir, "out-small") }, { batchRows: 7, readPageRows: 4 });
+      const large = await copyDatabase({ from: `file:${file}`, to: await server.createDatabase(), filesTo: path.join(dir, "out-large") });
+      if (!small.ok || !large.ok) throw new Error(JSON.stringify(small.ok ? large : small));
+      expect(small.data.tables).toEqual(large.data.tables);
+      expect(small.data.tables.find((t) => t.table === "BuildRecord")?.rows).toBe(61);
+      expect(small.data.files).toMatchObject({ count: 1, copied: 1 });
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});

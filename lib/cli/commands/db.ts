@@ -28,7 +28,7 @@ export const db: CliCommand = async (argv, io) => {
       return 2;
     }
     const str = (v: unknown) => (typeof v === "string" ? v : "");
-    const r = await copyDatabase({ from: str(parsed.values.from), to: str(parsed.values.to), filesTo: str(parsed.values["files-to"]) });
+    const r = await copyDatabase({ from: str(parsed.values.from), to: str(parsed.values.to), filesTo: str(parsed.values["files-to"]) }, { onProgress: json ? undefined : (m) => io.stderr(`${m}\n`) });
     if (!r.ok) return reportError(io, r.error, json);
     if (json) io.stdout(`${JSON.stringify(r.data)}\n`);
     else {
