@@ -32,8 +32,9 @@ export const SECURITY_HEADERS = [
 
 /** @type {import('next').NextConfig} */
 const nextConfig = {
-  // better-sqlite3 is a native addon: load it from node_modules at run time, never bundle it.
-  serverExternalPackages: ["better-sqlite3", "@prisma/adapter-better-sqlite3"],
+  // better-sqlite3 is a native addon: load it from node_modules at run time, never bundle it; pg
+  // (and Prisma's adapter over it) likewise, as pg reaches for its optional native binding at run time.
+  serverExternalPackages: ["better-sqlite3", "@prisma/adapter-better-sqlite3", "pg", "@prisma/adapter-pg"],
   poweredByHeader: false,
   // A separate build folder lets a second build (e.g. a browser-test run) proceed beside a dev server.
   distDir: process.env.MELTLEDGER_DIST_DIR || ".next",

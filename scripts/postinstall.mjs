@@ -1,6 +1,6 @@
 // Runs after every `npm install` / `npm ci`:
 // 1. makes sure better-sqlite3's native addon exists (npm 11 may hold install scripts back);
-// 2. generates the Prisma client into lib/generated/prisma.
+// 2. generates the Prisma clients into lib/generated/prisma (SQLite) and lib/generated/prisma-pg (PostgreSQL).
 import { execFileSync } from "node:child_process";
 import { createRequire } from "node:module";
 import path from "node:path";

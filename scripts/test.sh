@@ -1,12 +1,13 @@
 #!/usr/bin/env bash
 # The whole check suite, as CI runs it: Debian packages the tests need, typecheck, lint,
-# unit and integration tests, production build, end-to-end tests in a real browser.
+# unit and integration tests (those on PostgreSQL against a throwaway server on loopback, started
+# here and removed at the end), production build, end-to-end tests in a real browser.
 # Ends with one line "N passed, N failed" totalled over every vitest suite; a failed
 # non-test step (typecheck, lint, build) counts as one failure.
 set -u
 cd "$(dirname "$0")/.."
 
-DEBIAN_PACKAGES=(chromium python3-scipy python3-imblearn python3-periodictable python3-pandas python3-openpyxl)
+DEBIAN_PACKAGES=(chromium python3-scipy python3-imblearn python3-periodictable python3-pandas python3-openpyxl postgresql)
 missing=()
 for p in "${DEBIAN_PACKAGES[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
@@ -22,6 +23,19 @@ if [ ${#missing[@]} -gt 0 ]; then
 fi
 
 mkdir -p test-results
+
+# PostgreSQL for the tests that need it: a cluster of our own in a temporary folder, on a free
+# loopback port, whatever else runs on the machine. Those tests fail (not skip) when it did not start.
+export MELTLEDGER_TEST_PG_REQUIRED=1
+unset MELTLEDGER_TEST_PG_URL MELTLEDGER_TEST_PG_DIR
+echo "[test] starting PostgreSQL for the tests…"
+if pg_env=$(bash scripts/test-postgres.sh start); then
+  eval "$pg_env"
+  echo "[postgres] running at ${MELTLEDGER_TEST_PG_URL} (data in ${MELTLEDGER_TEST_PG_DIR})"
+  trap 'bash scripts/test-postgres.sh stop "${MELTLEDGER_TEST_PG_DIR}"' EXIT
+else
+  echo "[postgres] could not start a server; the PostgreSQL tests will fail"
+fi
 passed=0
 failed=0
 step_failed=0

@@ -3,15 +3,25 @@ import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";
 import type { SqliteDatabase } from "./connection";
 
-/** Folder holding prisma/migrations/<timestamp>_<name>/migration.sql, found from this file upwards. */
-export function defaultMigrationsDir(): string {
+/** Folder holding prisma/<sub>/<timestamp>_<name>/migration.sql, found from this file upwards. */
+function findMigrationsDir(sub: string): string {
   let dir = import.meta.dirname ?? process.cwd();
   for (let i = 0; i < 6; i++) {
-    const candidate = path.join(dir, "prisma", "migrations");
+    const candidate = path.join(dir, "prisma", sub);
     if (existsSync(candidate)) return candidate;
     dir = path.dirname(dir);
   }
-  return path.join(process.cwd(), "prisma", "migrations");
+  return path.join(process.cwd(), "prisma", sub);
+}
+
+/** SQLite migrations: prisma/migrations. */
+export function defaultMigrationsDir(): string {
+  return findMigrationsDir("migrations");
+}
+
+/** PostgreSQL migrations: prisma/postgres/migrations (see migrate-postgres.ts). */
+export function defaultPostgresMigrationsDir(): string {
+  return findMigrationsDir(path.join("postgres", "migrations"));
 }
 
 export interface MigrationFile {

@@ -3,7 +3,7 @@ import { createReadStream, createWriteStream, existsSync, mkdirSync, renameSync,
 import path from "node:path";
 import { z } from "zod";
 import { attachStoredFile, getSourceDocument, listSourceDocuments, recordStoredFile, type SourceDocumentRow } from "../db/files";
-import { resolveDatabaseLocation } from "../db/location";
+import { resolveDatabaseTarget } from "../db/location";
 import { getSource } from "../db/sources";
 import { requireRole, type Actor } from "./actor";
 import { fail, guard, ok, type Result } from "./result";
@@ -63,9 +63,9 @@ export function safeDisplayName(name: string): string {
   return (clean || "upload").slice(0, 200);
 }
 
-/** The folder stored files live in: <folder of the database>/files. */
+/** The folder stored files live in: <folder of the SQLite file>/files, or MELTLEDGER_FILES_DIR (default ./data/files) beside a PostgreSQL server. */
 export function filesDir(): string {
-  return resolveDatabaseLocation().dataDir;
+  return resolveDatabaseTarget().dataDir;
 }
 
 const SHA256_HEX = /^[0-9a-f]{64}$/;

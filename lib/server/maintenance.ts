@@ -3,14 +3,34 @@ import path from "node:path";
 import { closeSqlite, sqlite } from "../db/connection";
 import { disconnectPrisma } from "../db/client";
 import { migrate } from "../db/migrate";
-import { resolveDatabaseLocation } from "../db/location";
-import { guard, ok, type Result } from "./result";
+import { migratePostgres } from "../db/migrate-postgres";
+import { describeConnectionError, isPostgresConnectionError, withPostgres } from "../db/postgres";
+import { resolveDatabaseLocation, resolveDatabaseTarget, type DatabaseEngine } from "../db/location";
+import { fail, guard, ok, type Result } from "./result";
 
-export async function migrateDatabase(): Promise<Result<{ filePath: string; applied: string[]; alreadyApplied: string[] }>> {
-  return guard(async () => {
-    const { filePath } = resolveDatabaseLocation();
-    const r = migrate(sqlite());
-    return ok({ filePath, ...r });
+/**
+ * Applies pending migrations to the database DATABASE_URL names: prisma/migrations on a SQLite
+ * file, prisma/postgres/migrations on a PostgreSQL server. `filePath` is the SQLite file, or the
+ * server's URL with its password hidden.
+ */
+export interface MigrateSummary {
+  filePath: string;
+  engine: DatabaseEngine;
+  applied: string[];
+  alreadyApplied: string[];
+}
+
+export async function migrateDatabase(): Promise<Result<MigrateSummary>> {
+  return guard<MigrateSummary>(async () => {
+    const target = resolveDatabaseTarget();
+    if (target.engine === "sqlite") return ok({ filePath: target.filePath, engine: "sqlite", ...migrate(sqlite()) });
+    try {
+      const r = await withPostgres(target.url, (client) => migratePostgres(client));
+      return ok({ filePath: target.redactedUrl, engine: "postgresql", ...r });
+    } catch (error) {
+      if (isPostgresConnectionError(error)) return fail("unavailable", `${describeConnectionError(target.url, error)}.`);
+      throw error;
+    }
   });
 }
 

@@ -1,6 +1,7 @@
 import type { FieldErrors } from "../schemas/issues";
 import { fieldErrorsOf } from "../schemas/issues";
 import type { z } from "zod";
+import { EngineNotSupportedError } from "../db/location";
 
 export type AppErrorCode =
   | "invalid_input"
@@ -63,6 +64,7 @@ export async function guard<T>(body: () => Promise<Result<T>>): Promise<Result<T
     return await body();
   } catch (error) {
     if (error instanceof AppFailure) return { ok: false, error: error.error };
+    if (error instanceof EngineNotSupportedError) return fail("unavailable", error.message, { engine: "postgresql" });
     const storage = storageFailure(error);
     if (storage) return storage;
     console.error("[meltledger] unexpected error", error);

@@ -25,4 +25,14 @@ describe("installation", () => {
   test("the generated Prisma client is present", () => {
     expect(() => readFileSync(path.join(ROOT, "lib/generated/prisma/client.ts"))).not.toThrow();
   });
+
+  test("the PostgreSQL client is generated beside it, for the postgresql provider", () => {
+    const generated = readFileSync(path.join(ROOT, "lib/generated/prisma-pg/internal/class.ts"), "utf8");
+    expect(generated).toMatch(/"activeProvider":\s*"postgresql"/);
+  });
+
+  test("the pg adapter matches @prisma/client's version", () => {
+    const version = (name: string) => (JSON.parse(readFileSync(path.join(ROOT, "node_modules", name, "package.json"), "utf8")) as { version: string }).version;
+    expect(version("@prisma/adapter-pg")).toBe(version("@prisma/client"));
+  });
 });

@@ -84,3 +84,16 @@ export const SQLITE_TYPE: Record<string, string> = {
   Json: "JSONB",
   Bytes: "BLOB",
 };
+
+/** The PostgreSQL column type (information_schema.columns.data_type) Prisma uses for each scalar type. */
+export const POSTGRES_TYPE: Record<string, string> = {
+  String: "text",
+  Int: "integer",
+  Float: "double precision",
+  Boolean: "boolean",
+  DateTime: "timestamp without time zone",
+  BigInt: "bigint",
+  Decimal: "numeric",
+  Json: "jsonb",
+  Bytes: "bytea",
+};
