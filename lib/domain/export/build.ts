@@ -335,7 +335,7 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
   const written = rows.filter((r) => !removed.has(r));
   const elements = new Set<string>();
   if (options.features.includes("composition")) for (const r of written) for (const el of r.ctx.wtPct.keys()) elements.add(el);
-  const fc = createFeatureComputer(options.features, [...elements]);
+  const fc = createFeatureComputer(options.features, [...elements], written.length + synthetic.length);
   const sourceYear = new Map(input.sources.map((s) => [s.id, s.year]));
 
   const labelKind: TableColumn["kind"] = options.label.scheme === "binary" ? "integer" : options.label.scheme === "multiclass" ? "text" : "number";

@@ -58,6 +58,8 @@ export interface ColumnSource {
 
 /** Distinct numbers (or texts) remembered per column before caching stops (it pays only for repeated values). */
 const CACHE_LIMIT = 4096;
+/** Values per column kept in the short list before the map. */
+const FEW = 8;
 /** Text is handed on in pieces of about this many characters. */
 const PIECE_CHARS = 1 << 16;
 
@@ -79,7 +81,22 @@ function writeCsvPieces(columns: readonly TableColumn[], data: Data, emit: (piec
   let piece = columns.map((c) => escapeTextCell(c.name)).join(",") + "\n";
   const numberCaches: (Map<number, string> | null)[] = columns.map((c) => (c.kind === "text" ? null : new Map()));
   const textCaches: (Map<string, string> | null)[] = columns.map((c) => (c.kind === "text" ? new Map() : null));
+  // Columns with a handful of values (layer, absorptivity, mixture and composition per alloy) are
+  // answered from a short list compared with ===, before the map.
+  const fewValues = columns.map(() => new Float64Array(FEW));
+  const fewTexts = columns.map(() => new Array<string>(FEW));
+  const fewCount = new Int32Array(width);
   const formatNumber = (c: number, v: number): string => {
+    const few = fewValues[c]!;
+    const n = fewCount[c]!;
+    for (let i = 0; i < n; i++) if (few[i] === v && (v !== 0 || Object.is(few[i], v))) return fewTexts[c]![i]!;
+    if (n < FEW) {
+      const text = formatNumberCell(v);
+      few[n] = v;
+      fewTexts[c]![n] = text;
+      fewCount[c] = n + 1;
+      return text;
+    }
     const cache = numberCaches[c];
     let text = cache?.get(v);
     if (text === undefined) {

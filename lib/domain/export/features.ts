@@ -195,14 +195,15 @@ const num = (x: number | null | undefined): number => (x === null || x === undef
 const MIXTURE_WIDTH = FEATURE_CATALOGUE.filter((d) => d.group === "mixture").length;
 
 /**
- * A feature computer for the chosen groups; composition columns for the given elements.
+ * A feature computer for the chosen groups; composition columns for the given elements;
+ * `expectedRows` sizes its memo (a hint only).
  *
  * @example
  * const fc = createFeatureComputer(["process", "energy"], []);
  * const out = new Float64Array(fc.columns.length);
  * fc.compute(point, materialContext("316L", comp), { recordQuality: 0.8, sourceYear: 2021 }, out); // out = [200, 800, …, 83.33]
  */
-export function createFeatureComputer(groups: readonly FeatureGroup[], compositionElements: readonly string[]): FeatureComputer {
+export function createFeatureComputer(groups: readonly FeatureGroup[], compositionElements: readonly string[], expectedRows = 1024): FeatureComputer {
   const chosen = new Set(groups);
   const columns: FeatureDef[] = [];
   const sortedElements = [...compositionElements].sort();
@@ -212,9 +213,11 @@ export function createFeatureComputer(groups: readonly FeatureGroup[], compositi
     else columns.push(...FEATURE_CATALOGUE.filter((d) => d.group === g));
   }
   const width = MELTPOOL_NAMES.length;
-  let pool = new Float64Array(width * 1024);
+  // Sized for the rows to come (at most one solve per row), so neither the pool nor the memo grows on the way.
+  const capacity = Math.max(16, Math.min(expectedRows, 1 << 22));
+  let pool = new Float64Array(width * capacity);
   let used = 0;
-  const memo = new TupleMemo(MEMO_KEY_WIDTH, 4096);
+  const memo = new TupleMemo(MEMO_KEY_WIDTH, capacity);
   const ctxIds = new Map<string, number>();
   const mixtureRows = new Map<string, Float64Array>();
 
