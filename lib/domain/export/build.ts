@@ -363,6 +363,20 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
   const after: ClassCounts = {};
   for (const p of partitions) after[p] = {};
   const features = new Float64Array(fc.columns.length);
+  // One array of row cells, refilled per row (the table copies them).
+  const cells: Cell[] = new Array<Cell>(featureStart).fill(null);
+  const fillCells = (recordId: Cell, sourceId: Cell, alloy: string, split: string, fold: number | null, isSynthetic: number, parents: string | null, weight: number, label: Cell) => {
+    let i = 0;
+    cells[i++] = recordId;
+    cells[i++] = sourceId;
+    cells[i++] = alloy;
+    cells[i++] = split;
+    if (hasFold) cells[i++] = fold;
+    cells[i++] = isSynthetic;
+    cells[i++] = parents;
+    cells[i++] = weight;
+    cells[i++] = label;
+  };
   const missing = new Array<number>(fc.columns.length).fill(0);
 
   const provenance: RowProvenance = { recordQuality: null, sourceYear: null };
@@ -371,7 +385,7 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
     provenance.sourceYear = sourceYear.get(r.rec.sourceId) ?? null;
     fc.compute(r.point, r.ctx, provenance, features);
     for (let j = 0; j < features.length; j++) if (Number.isNaN(features[j]!)) missing[j]! += 1;
-    const cells: Cell[] = hasFold ? [r.rec.id, r.rec.sourceId, r.rec.alloyKey, r.split, r.fold, 0, null, weightOf(r.cls), r.label] : [r.rec.id, r.rec.sourceId, r.rec.alloyKey, r.split, 0, null, weightOf(r.cls), r.label];
+    fillCells(r.rec.id, r.rec.sourceId, r.rec.alloyKey, r.split, r.fold, 0, null, weightOf(r.cls), r.label);
     tableOf(r.split).push(cells, features);
     inc(after, r.partition, r.cls);
   }
@@ -380,7 +394,7 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
   provenance.sourceYear = null;
   for (const s of synthetic) {
     fc.compute(s.point, s.ctx, provenance, features);
-    const cells: Cell[] = hasFold ? [null, null, s.alloy, s.split, s.fold, 1, s.parents, 1, s.label] : [null, null, s.alloy, s.split, 1, s.parents, 1, s.label];
+    fillCells(null, null, s.alloy, s.split, s.fold, 1, s.parents, 1, s.label);
     tableOf(s.split).push(cells, features);
     inc(after, s.partition, s.cls);
   }
