@@ -67,18 +67,11 @@ type Data = CellSource | ColumnSource | readonly (readonly Cell[])[];
 const isColumnSource = (d: Data): d is ColumnSource => !Array.isArray(d) && typeof (d as Partial<ColumnSource>).numberColumn === "function";
 
 /**
- * The CSV text in pieces of about PIECE_CHARS characters, in order; the pieces joined are the file.
- * Every number is formatted by formatNumberCell and every text by escapeTextCell, each remembered
- * per column while that pays.
+ * Formatters of number and text cells per column: formatNumberCell and escapeTextCell, with the
+ * results remembered per column while that pays.
  */
-function writeCsvPieces(columns: readonly TableColumn[], data: Data, emit: (piece: string) => void): void {
-  if (Array.isArray(data)) {
-    (data as readonly (readonly Cell[])[]).forEach((row, r) => {
-      if (row.length !== columns.length) throw new RangeError(`writeCsv: row ${r} has ${row.length} cells for ${columns.length} columns`);
-    });
-  }
+function cellFormatters(columns: readonly TableColumn[]): { formatNumber: (c: number, v: number) => string; formatText: (c: number, v: string) => string } {
   const width = columns.length;
-  let piece = columns.map((c) => escapeTextCell(c.name)).join(",") + "\n";
   const numberCaches: (Map<number, string> | null)[] = columns.map((c) => (c.kind === "text" ? null : new Map()));
   const textCaches: (Map<string, string> | null)[] = columns.map((c) => (c.kind === "text" ? new Map() : null));
   // Columns with a handful of values (layer, absorptivity, mixture and composition per alloy) are
@@ -120,6 +113,23 @@ function writeCsvPieces(columns: readonly TableColumn[], data: Data, emit: (piec
     }
     return text;
   };
+  return { formatNumber, formatText };
+}
+
+/**
+ * The CSV text in pieces of about PIECE_CHARS characters, in order; the pieces joined are the file.
+ * Every number is formatted by formatNumberCell and every text by escapeTextCell, each remembered
+ * per column while that pays.
+ */
+function writeCsvPieces(columns: readonly TableColumn[], data: Data, emit: (piece: string) => void): void {
+  if (Array.isArray(data)) {
+    (data as readonly (readonly Cell[])[]).forEach((row, r) => {
+      if (row.length !== columns.length) throw new RangeError(`writeCsv: row ${r} has ${row.length} cells for ${columns.length} columns`);
+    });
+  }
+  const width = columns.length;
+  let piece = columns.map((c) => escapeTextCell(c.name)).join(",") + "\n";
+  const { formatNumber, formatText } = cellFormatters(columns);
   if (isColumnSource(data)) {
     const numbers = columns.map((c, j) => (c.kind === "text" ? null : data.numberColumn(j)));
     const texts = columns.map((c, j) => (c.kind === "text" ? data.textColumn(j) : null));
@@ -180,14 +190,15 @@ export function writeCsv(columns: readonly TableColumn[], data: Data): string {
 }
 
 /**
- * The same CSV as writeCsv, as UTF-8 bytes, encoded piece by piece into one buffer (no whole-file
- * string is built).
+ * The same CSV as writeCsv, as UTF-8 bytes in one buffer; no whole-file string is built (a
+ * columnar table is written cell by cell, plain rows piece by piece).
  *
  * @example new TextDecoder().decode(writeCsvBytes(columns, rows)) === writeCsv(columns, rows); // true
  */
 export function writeCsvBytes(columns: readonly TableColumn[], data: Data): Uint8Array {
+  if (isColumnSource(data)) return columnsToCsvBytes(columns, data);
   const encoder = new TextEncoder();
-  const rows = Array.isArray(data) ? data.length : (data as CellSource | ColumnSource).rowCount;
+  const rows = Array.isArray(data) ? data.length : (data as CellSource).rowCount;
   let bytes = new Uint8Array(Math.max(1 << 12, (rows + 1) * columns.length * 8));
   let used = 0;
   writeCsvPieces(columns, data, (piece) => {
@@ -203,4 +214,67 @@ export function writeCsvBytes(columns: readonly TableColumn[], data: Data): Uint
     }
   });
   return bytes.subarray(0, used);
+}
+
+const COMMA = 0x2c;
+const NEWLINE = 0x0a;
+/** Longest text formatNumberCell gives ("-1.2345678901234567e-308" is 24 characters), plus the comma. */
+const NUMBER_BYTES = 32;
+
+/**
+ * CSV bytes of a column source written cell by cell into one buffer: number texts are ASCII and
+ * copied byte by byte, other text goes through the UTF-8 encoder; no line or file string is built.
+ */
+function columnsToCsvBytes(columns: readonly TableColumn[], data: ColumnSource): Uint8Array {
+  const encoder = new TextEncoder();
+  const { formatNumber, formatText } = cellFormatters(columns);
+  const width = columns.length;
+  const numbers = columns.map((c, j) => (c.kind === "text" ? null : data.numberColumn(j)));
+  const texts = columns.map((c, j) => (c.kind === "text" ? data.textColumn(j) : null));
+  let buf: Uint8Array = new Uint8Array(Math.max(1 << 12, (data.rowCount + 1) * width * 10));
+  let pos = 0;
+  const grow = (n: number): Uint8Array => {
+    const bigger = new Uint8Array(Math.max(buf.length * 2, pos + n));
+    bigger.set(buf.subarray(0, pos));
+    return bigger;
+  };
+  /** Writes text at pos (room for 3 bytes per UTF-16 unit made first); returns the new pos. */
+  const putText = (text: string): number => {
+    if (pos + 3 * text.length > buf.length) buf = grow(3 * text.length);
+    let p = pos;
+    for (let i = 0; i < text.length; i++) {
+      const ch = text.charCodeAt(i);
+      if (ch >= 0x80) return p + encoder.encodeInto(text.slice(i), buf.subarray(p)).written;
+      buf[p++] = ch;
+    }
+    return p;
+  };
+  pos = putText(`${columns.map((c) => escapeTextCell(c.name)).join(",")}\n`);
+  const rowRoom = width * NUMBER_BYTES + 1;
+  for (let r = 0; r < data.rowCount; r++) {
+    if (pos + rowRoom > buf.length) buf = grow(rowRoom);
+    let out = buf;
+    let p = pos;
+    for (let c = 0; c < width; c++) {
+      if (c) out[p++] = COMMA;
+      const col = numbers[c];
+      if (col) {
+        const v = col[r]!;
+        if (v !== v) continue;
+        const text = formatNumber(c, v);
+        for (let i = 0; i < text.length; i++) out[p++] = text.charCodeAt(i);
+      } else {
+        const v = texts[c]![r];
+        if (v === null || v === undefined) continue;
+        // Text can be long: make room for it and the rest of the row.
+        pos = p;
+        if (pos + rowRoom > buf.length) buf = grow(rowRoom);
+        p = putText(formatText(c, v));
+        out = buf;
+      }
+    }
+    out[p++] = NEWLINE;
+    pos = p;
+  }
+  return buf.subarray(0, pos);
 }
