@@ -80,6 +80,8 @@ function cellFormatters(columns: readonly TableColumn[]): { formatNumber: (c: nu
   const fewTexts = columns.map(() => new Array<string>(FEW));
   const fewCount = new Int32Array(width);
   const formatNumber = (c: number, v: number): string => {
+    // A column whose values turned out all different is formatted straight away.
+    if (numberCaches[c] === null) return formatNumberCell(v);
     const few = fewValues[c]!;
     const n = fewCount[c]!;
     for (let i = 0; i < n; i++) if (few[i] === v && (v !== 0 || Object.is(few[i], v))) return fewTexts[c]![i]!;
