@@ -11,6 +11,7 @@
  * operations so the doubles come out identical; meltpool-batch.test.ts holds them to it.
  */
 import { DEFAULT_CRITERIA_THRESHOLDS } from "./criteria";
+import { createSurface, type EagarTsaiSurface, type SurfaceLookup } from "./eagar-tsai-surface";
 import { shippedSurface } from "./meltpool";
 import { analyzeMeltPool, type MeltPoolMaterial } from "./meltpool-analysis";
 
@@ -38,6 +39,30 @@ const marginAtMost = (value: number | null, threshold: number): number => (value
 const marginAtLeast = (value: number | null, threshold: number | null): number => (value === null || threshold === null ? NaN : (value - threshold) / threshold);
 
 const PI_POW_1_5 = Math.PI ** 1.5;
+
+interface TableReader {
+  surface: EagarTsaiSurface;
+  /** The table's ln u range (its peak axis), as its reader checks it. */
+  lnU: { min: number; step: number; count: number };
+}
+let tableReaders: TableReader[] | null = null;
+
+/**
+ * The shipped surface's answer (the first of its tables, finest first, that covers the inputs), or
+ * null where it has none ("outside"). A table whose ln u range leaves u out is skipped before it is
+ * asked: it would answer "outside", with a reason text built for nobody.
+ */
+function readSurface(u: number, theta: number): Exclude<SurfaceLookup, { kind: "outside" }> | null {
+  tableReaders ??= shippedSurface().tables.map((t) => ({ surface: createSurface([t]), lnU: t.peakLnU }));
+  const lnU = Math.log(u);
+  for (const r of tableReaders) {
+    const f = (lnU - r.lnU.min) / r.lnU.step;
+    if (!(f >= 0 && f <= r.lnU.count - 1)) continue;
+    const found = r.surface.lookup(u, theta);
+    if (found.kind !== "outside") return found;
+  }
+  return null;
+}
 
 /**
  * Solves one parameter set (1/e² spot diameter) into `out[at … at + MELTPOOL_SLOT_COUNT)`.
@@ -71,8 +96,8 @@ export function meltPoolInto(
   const temperatureScaleK = (A * laserPowerW) / (2 * PI_POW_1_5 * k * sigmaM);
   const u = (speedMPerS * sigmaM) / (2 * alpha);
   const theta = (tMelt - ambientTemperatureK) / temperatureScaleK;
-  const found = valid ? shippedSurface().lookup(u, theta) : null;
-  if (found === null || found.kind === "outside") {
+  const found = valid ? readSurface(u, theta) : null;
+  if (found === null) {
     slow(laserPowerW, scanSpeedMmPerS, spotDiameterUm, hatchSpacingUm, layerThicknessUm, ambientTemperatureK, m, out, at);
     return;
   }
