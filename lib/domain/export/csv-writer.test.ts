@@ -77,4 +77,12 @@ describe("writeCsv", () => {
       { numRuns: 60 },
     );
   });
+
+  test("a long multi-byte text that nearly fills the buffer leaves room for the numbers after it", () => {
+    const cols = [{ name: "text", kind: "text" as const }, { name: "x", kind: "number" as const }, { name: "n", kind: "integer" as const }];
+    const rows = [["€".repeat(1360), 0.1 + 0.2, 123456789]] as const;
+    const table = new ColumnarTable(cols, 1);
+    for (const r of rows) table.push([...r]);
+    expect(new TextDecoder().decode(writeCsvBytes(cols, table))).toBe(writeCsv(cols, rows.map((r) => [...r])));
+  });
 });

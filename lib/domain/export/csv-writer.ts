@@ -240,8 +240,9 @@ function columnsToCsvBytes(columns: readonly TableColumn[], data: ColumnSource):
     bigger.set(buf.subarray(0, pos));
     return bigger;
   };
-  /** Writes text at pos (room for 3 bytes per UTF-16 unit made first); returns the new pos. */
-  const putText = (text: string): number => {
+  /** Writes text at `at` (room for 3 bytes per UTF-16 unit made first); returns the position after it. */
+  const putText = (text: string, at: number): number => {
+    pos = at;
     if (pos + 3 * text.length > buf.length) buf = grow(3 * text.length);
     let p = pos;
     for (let i = 0; i < text.length; i++) {
@@ -251,7 +252,7 @@ function columnsToCsvBytes(columns: readonly TableColumn[], data: ColumnSource):
     }
     return p;
   };
-  pos = putText(`${columns.map((c) => escapeTextCell(c.name)).join(",")}\n`);
+  pos = putText(`${columns.map((c) => escapeTextCell(c.name)).join(",")}\n`, 0);
   const rowRoom = width * NUMBER_BYTES + 1;
   for (let r = 0; r < data.rowCount; r++) {
     if (pos + rowRoom > buf.length) buf = grow(rowRoom);
@@ -268,10 +269,10 @@ function columnsToCsvBytes(columns: readonly TableColumn[], data: ColumnSource):
       } else {
         const v = texts[c]![r];
         if (v === null || v === undefined) continue;
-        // Text can be long: make room for it and the rest of the row.
-        pos = p;
+        // Text can be long: room for it first, then again for the rest of the row.
+        pos = putText(formatText(c, v), p);
         if (pos + rowRoom > buf.length) buf = grow(rowRoom);
-        p = putText(formatText(c, v));
+        p = pos;
         out = buf;
       }
     }
