@@ -9,26 +9,6 @@ export interface ExportCandidateQuery {
   sourceIds: readonly number[];
 }
 
-interface RawExportRecord {
-  id: number;
-  sourceId: number;
-  materialId: number;
-  alloyKey: string;
-  status: string;
-  outcome: string;
-  relativeDensityPct: number | null;
-  laserPowerW: number | null;
-  scanSpeedMmPerS: number | null;
-  hatchSpacingUm: number | null;
-  layerThicknessUm: number | null;
-  spotDiameterUm: number | null;
-  preheatC: number | null;
-  powderD50Um: number | null;
-  qualityScore: number | null;
-  createdAt: string;
-  updatedAt: string;
-}
-
 function compositions(db: SqliteDatabase): Map<number, Composition> {
   const out = new Map<number, Composition>();
   const materials = db.prepare(`SELECT id, basis FROM Material`).all() as { id: number; basis: string }[];
@@ -54,18 +34,64 @@ export function loadExportRecords(db: SqliteDatabase, q: ExportCandidateQuery): 
   inList("status", q.statuses, parts, params);
   inList("alloyKey", q.alloys, parts, params);
   inList("sourceId", q.sourceIds, parts, params);
+  // Raw (array) rows and one object per record built here: no intermediate object per row.
   const rows = db
     .prepare(
       `SELECT id, sourceId, materialId, alloyKey, status, outcome, relativeDensityPct, laserPowerW, scanSpeedMmPerS, hatchSpacingUm, layerThicknessUm,
               spotDiameterUm, preheatC, powderD50Um, qualityScore, createdAt, updatedAt
        FROM BuildRecord ${parts.length ? `WHERE ${parts.join(" AND ")}` : ""} ORDER BY id`,
     )
-    .all(...params) as RawExportRecord[];
+    .raw(true)
+    .all(...params) as RawExportRow[];
   const comps = compositions(db);
-  return rows.map(({ materialId, ...r }) => {
-    const c = comps.get(materialId);
-    return { ...r, createdAt: isoOf(r.createdAt), updatedAt: isoOf(r.updatedAt), composition: c && c.components.length ? c : null };
-  });
+  const iso = lastValueMemo(isoOf);
+  const out: ExportRecord[] = new Array(rows.length);
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i]!;
+    const c = comps.get(r[2]);
+    out[i] = {
+      id: r[0],
+      sourceId: r[1],
+      alloyKey: r[3],
+      status: r[4],
+      outcome: r[5],
+      relativeDensityPct: r[6],
+      laserPowerW: r[7],
+      scanSpeedMmPerS: r[8],
+      hatchSpacingUm: r[9],
+      layerThicknessUm: r[10],
+      spotDiameterUm: r[11],
+      preheatC: r[12],
+      powderD50Um: r[13],
+      qualityScore: r[14],
+      createdAt: iso(r[15]),
+      updatedAt: iso(r[16]),
+      composition: c && c.components.length ? c : null,
+    };
+  }
+  return out;
+}
+
+/** The columns of the export query, in order. */
+type RawExportRow = [
+  id: number, sourceId: number, materialId: number, alloyKey: string, status: string, outcome: string, relativeDensityPct: number | null,
+  laserPowerW: number | null, scanSpeedMmPerS: number | null, hatchSpacingUm: number | null, layerThicknessUm: number | null, spotDiameterUm: number | null,
+  preheatC: number | null, powderD50Um: number | null, qualityScore: number | null, createdAt: string | number, updatedAt: string | number,
+];
+
+/** `f` remembering its last argument and result: rows written together share their timestamps. */
+function lastValueMemo<A, R>(f: (a: A) => R): (a: A) => R {
+  let seen = false;
+  let lastArg: A;
+  let lastResult: R;
+  return (a) => {
+    if (!seen || a !== lastArg) {
+      lastArg = a;
+      lastResult = f(a);
+      seen = true;
+    }
+    return lastResult;
+  };
 }
 
 /** SQLite keeps Prisma's DateTime as text or as epoch milliseconds; the core reads ISO text. */

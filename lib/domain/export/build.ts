@@ -13,7 +13,7 @@ import { gaussianSample, meanAndSpread } from "./balancing/gaussian";
 import { smote } from "./balancing/smote";
 import { formatCitation } from "./citation";
 import type { Cell, TableColumn } from "./csv-writer";
-import { createFeatureComputer, materialContext, roundSig, type FeatureDef, type MaterialContext } from "./features";
+import { createFeatureComputer, materialContext, roundSig, type FeatureDef, type MaterialContext, type RowProvenance } from "./features";
 import { fillMissing, type FillReport } from "./fill";
 import { applyFilters, type DropReason } from "./filters";
 import { labelClasses, labelOf } from "./labels";
@@ -209,13 +209,26 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
   const filled = fillMissing(labelled.map((l) => processPointOf(l.rec)), labelled.map((l) => l.rec.alloyKey), place.map((p) => isTraining(p.partition)));
 
   const contexts = new Map<string, MaterialContext>();
+  // Records usually share one composition object per material: remember its context by identity
+  // before building the text key (the same key gives the same context).
+  const byComposition = new Map<ExportRecord["composition"], Map<string, MaterialContext>>();
   const contextOf = (rec: ExportRecord): MaterialContext => {
-    const key = `${rec.alloyKey}|${rec.composition ? rec.composition.components.map((c) => `${c.element}${c.amount}`).join(",") : ""}`;
-    let c = contexts.get(key);
+    let byAlloy = byComposition.get(rec.composition);
+    if (!byAlloy) byComposition.set(rec.composition, (byAlloy = new Map()));
+    let c = byAlloy.get(rec.alloyKey);
+    if (c) return c;
+    const key = `${rec.alloyKey}|${rec.composition ? rec.composition.components.map((x) => `${x.element}${x.amount}`).join(",") : ""}`;
+    c = contexts.get(key);
     if (!c) contexts.set(key, (c = materialContext(rec.alloyKey, rec.composition)));
+    byAlloy.set(rec.alloyKey, c);
     return c;
   };
-  const rows: Row[] = labelled.map((l, i) => ({ ...l, ...place[i]!, point: filled.points[i]!, ctx: contextOf(l.rec) }));
+  const rows: Row[] = new Array(labelled.length);
+  for (let i = 0; i < labelled.length; i++) {
+    const l = labelled[i]!;
+    const at = place[i]!;
+    rows[i] = { rec: l.rec, cls: l.cls, label: l.label, partition: at.partition, split: at.split, fold: at.fold, point: filled.points[i]!, ctx: contextOf(l.rec) };
+  }
 
   lap("filter, label, split, fill");
   // Balancing ------------------------------------------------------------------------------------
@@ -288,7 +301,6 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
           const dims = PROCESS_FIELDS.filter((f) => list.every((r) => r.point[f] !== null));
           const vectors = list.map((r) => dims.map((f) => r.point[f] as number));
           const base = list[0]!;
-          const common = { partition, split: base.split, fold: base.fold, alloy, cls, label: base.label };
           const pointFrom = (values: readonly number[], from: Row): ProcessPoint => {
             const p: ProcessPoint = { ...from.point };
             dims.forEach((f, j) => (p[f] = roundSig(values[j]!)));
@@ -297,7 +309,7 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
           if (method === "over") {
             for (const i of overSampleIndices(list.length, make, rng.balance)) {
               const r = list[i]!;
-              synthetic.push({ ...common, point: { ...r.point }, ctx: r.ctx, parents: String(r.rec.id) });
+              synthetic.push({ partition, split: base.split, fold: base.fold, alloy, cls, label: base.label, point: { ...r.point }, ctx: r.ctx, parents: String(r.rec.id) });
             }
           } else if (method === "smote") {
             const scale = dims.map((f) => spread[PROCESS_FIELDS.indexOf(f)]! || 1);
@@ -305,11 +317,11 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
             s.points.forEach((pt, n) => {
               const [a, b] = s.parents[n]!;
               const from = list[a]!;
-              synthetic.push({ ...common, point: pointFrom(pt, from), ctx: from.ctx, parents: `${from.rec.id} ${list[b]!.rec.id}` });
+              synthetic.push({ partition, split: base.split, fold: base.fold, alloy, cls, label: base.label, point: pointFrom(pt, from), ctx: from.ctx, parents: `${from.rec.id} ${list[b]!.rec.id}` });
             });
           } else {
             const g = gaussianSample(vectors, make, rng.balance, (j, v) => clipToHardLimit(dims[j]!, v));
-            for (const pt of g.points) synthetic.push({ ...common, point: pointFrom(pt, base), ctx: base.ctx, parents: "" });
+            for (const pt of g.points) synthetic.push({ partition, split: base.split, fold: base.fold, alloy, cls, label: base.label, point: pointFrom(pt, base), ctx: base.ctx, parents: "" });
           }
           inc(syntheticCounts, partition, cls, make);
         }
@@ -323,7 +335,7 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
   const written = rows.filter((r) => !removed.has(r));
   const elements = new Set<string>();
   if (options.features.includes("composition")) for (const r of written) for (const el of r.ctx.wtPct.keys()) elements.add(el);
-  const fc = createFeatureComputer(options.features, [...elements]);
+  const fc = createFeatureComputer(options.features, [...elements], written.length + synthetic.length);
   const sourceYear = new Map(input.sources.map((s) => [s.id, s.year]));
 
   const labelKind: TableColumn["kind"] = options.label.scheme === "binary" ? "integer" : options.label.scheme === "multiclass" ? "text" : "number";
@@ -351,19 +363,38 @@ export function buildTrainingSet(input: BuildInput): BuildResult {
   const after: ClassCounts = {};
   for (const p of partitions) after[p] = {};
   const features = new Float64Array(fc.columns.length);
+  // One array of row cells, refilled per row (the table copies them).
+  const cells: Cell[] = new Array<Cell>(featureStart).fill(null);
+  const fillCells = (recordId: Cell, sourceId: Cell, alloy: string, split: string, fold: number | null, isSynthetic: number, parents: string | null, weight: number, label: Cell) => {
+    let i = 0;
+    cells[i++] = recordId;
+    cells[i++] = sourceId;
+    cells[i++] = alloy;
+    cells[i++] = split;
+    if (hasFold) cells[i++] = fold;
+    cells[i++] = isSynthetic;
+    cells[i++] = parents;
+    cells[i++] = weight;
+    cells[i++] = label;
+  };
   const missing = new Array<number>(fc.columns.length).fill(0);
 
+  const provenance: RowProvenance = { recordQuality: null, sourceYear: null };
   for (const r of written) {
-    fc.compute(r.point, r.ctx, { recordQuality: r.rec.qualityScore, sourceYear: sourceYear.get(r.rec.sourceId) ?? null }, features);
+    provenance.recordQuality = r.rec.qualityScore;
+    provenance.sourceYear = sourceYear.get(r.rec.sourceId) ?? null;
+    fc.compute(r.point, r.ctx, provenance, features);
     for (let j = 0; j < features.length; j++) if (Number.isNaN(features[j]!)) missing[j]! += 1;
-    const cells: Cell[] = hasFold ? [r.rec.id, r.rec.sourceId, r.rec.alloyKey, r.split, r.fold, 0, null, weightOf(r.cls), r.label] : [r.rec.id, r.rec.sourceId, r.rec.alloyKey, r.split, 0, null, weightOf(r.cls), r.label];
+    fillCells(r.rec.id, r.rec.sourceId, r.rec.alloyKey, r.split, r.fold, 0, null, weightOf(r.cls), r.label);
     tableOf(r.split).push(cells, features);
     inc(after, r.partition, r.cls);
   }
   missing.forEach((n, j) => (columns[featureStart + j]!.missing = n));
+  provenance.recordQuality = null;
+  provenance.sourceYear = null;
   for (const s of synthetic) {
-    fc.compute(s.point, s.ctx, { recordQuality: null, sourceYear: null }, features);
-    const cells: Cell[] = hasFold ? [null, null, s.alloy, s.split, s.fold, 1, s.parents, 1, s.label] : [null, null, s.alloy, s.split, 1, s.parents, 1, s.label];
+    fc.compute(s.point, s.ctx, provenance, features);
+    fillCells(null, null, s.alloy, s.split, s.fold, 1, s.parents, 1, s.label);
     tableOf(s.split).push(cells, features);
     inc(after, s.partition, s.cls);
   }

@@ -1,8 +1,9 @@
+import fc from "fast-check";
 import { describe, expect, test } from "vitest";
 import { resolveAlloy } from "../alloys";
 import { analyzeMeltPool, materialFromProperties } from "../meltpool-analysis";
 import { resolveAlloyProperties } from "../alloy-properties";
-import { compositionFeature, createFeatureComputer, FEATURE_CATALOGUE, materialContext, roundSig } from "./features";
+import { compositionFeature, createFeatureComputer, FEATURE_CATALOGUE, materialContext, roundSig, roundSigOrNaN } from "./features";
 import type { ProcessPoint } from "./process-point";
 
 const alloy = resolveAlloy("316L");
@@ -70,5 +71,28 @@ describe("feature catalogue", () => {
 
   test.each([[1 / 3, 0.3333333333], [123456.789012345, 123456.789], [-2.5e-7, -2.5e-7], [0, 0]])("roundSig(%s) = %s", (x, r) => {
     expect(roundSig(x)).toBe(r);
+  });
+});
+
+describe("roundSig", () => {
+  /** The rounding written out with the power of ten computed in place, as the table must reproduce. */
+  const inPlace = (x: number) => {
+    if (x === 0) return 0;
+    const e = Math.floor(Math.log10(Math.abs(x)));
+    const scale = 10 ** (9 - e);
+    const r = Math.round(x * scale) / scale;
+    return Number.isFinite(r) ? r : x;
+  };
+
+  test("property: the same doubles as rounding with 10 ** n computed in place, over the whole double range", () => {
+    fc.assert(fc.property(fc.double({ noNaN: true, noDefaultInfinity: true }), (x) => {
+      expect(Object.is(roundSig(x), inPlace(x))).toBe(true);
+      expect(Object.is(roundSigOrNaN(x), inPlace(x))).toBe(true);
+    }), { numRuns: 20000 });
+  });
+
+  test("not finite: null, or NaN for typed columns", () => {
+    expect(roundSig(Infinity)).toBeNull();
+    expect(roundSigOrNaN(Number.NaN)).toBeNaN();
   });
 });

@@ -2,16 +2,17 @@
  * The feature catalogue of a training set: every column's name (canonical snake_case with its
  * unit), group, unit and definition, and the computation of a row's features from its process
  * point and its material. Physics features come from the melt-pool core's fast surface method
- * (meltpool-analysis.ts), memoized per distinct parameter set.
+ * (meltpool-batch.ts, the same numbers as meltpool-analysis.ts), memoized per distinct parameter set.
  */
 import { resolveAlloyProperties } from "../alloy-properties";
 import type { Composition } from "../composition";
 import { compositionFractions } from "../composition";
-import type { CriterionName } from "../criteria";
 import { energyDensities } from "../energy-density";
-import { analyzeMeltPool, materialFromProperties, type MeltPoolMaterial } from "../meltpool-analysis";
+import { MELTPOOL_SLOT_COUNT, MELTPOOL_SLOTS, meltPoolInto } from "../meltpool-batch";
+import { materialFromProperties, type MeltPoolMaterial } from "../meltpool-analysis";
 import { mixtureProperties, type MixtureProperties } from "../properties";
 import type { ProcessPoint } from "./process-point";
+import { TupleMemo } from "./tuple-memo";
 import type { FeatureGroup } from "./types";
 
 export interface FeatureDef {
@@ -124,12 +125,25 @@ export function materialContext(alloyKey: string, composition: Composition | nul
   return { key, alloyKey, material, propertiesEstimated, mixture, wtPct };
 }
 
+/** 10^n for n = −POW10_OFFSET … POW10_OFFSET, each computed as `10 ** n` (so the same doubles as computing it in place). */
+const POW10_OFFSET = 400;
+const POW10 = Float64Array.from({ length: 2 * POW10_OFFSET + 1 }, (_, i) => 10 ** (i - POW10_OFFSET));
+
 /** Rounds to 10 significant digits so files stay readable and small. @example roundSig(1/3); // 0.3333333333 */
 export function roundSig(x: number | null): number | null {
   if (x === null || !Number.isFinite(x)) return null;
+  return roundSigFinite(x);
+}
+
+/** roundSig with NaN for "no value", for typed-array columns. @example roundSigOrNaN(Infinity); // NaN */
+export function roundSigOrNaN(x: number): number {
+  return Number.isFinite(x) ? roundSigFinite(x) : NaN;
+}
+
+function roundSigFinite(x: number): number {
   if (x === 0) return 0;
   const e = Math.floor(Math.log10(Math.abs(x)));
-  const scale = 10 ** (9 - e);
+  const scale = POW10[9 - e + POW10_OFFSET]!;
   const r = Math.round(x * scale) / scale;
   return Number.isFinite(r) ? r : x;
 }
@@ -153,14 +167,14 @@ const MP = {
   depthToLayer: at("depth_to_layer"),
   absorptivity: at("absorptivity"),
   estimated: at("properties_estimated"),
+  marginLackOfFusionDepth: at("margin_lack_of_fusion_depth"),
+  marginLackOfFusionOverlap: at("margin_lack_of_fusion_overlap"),
+  marginBalling: at("margin_balling"),
+  marginKeyholeAspect: at("margin_keyhole_aspect"),
+  marginKeyholeEnthalpy: at("margin_keyhole_enthalpy"),
 };
-const MARGIN_INDEX: Partial<Record<CriterionName, number>> = {
-  lack_of_fusion_depth: at("margin_lack_of_fusion_depth"),
-  lack_of_fusion_overlap: at("margin_lack_of_fusion_overlap"),
-  balling_aspect: at("margin_balling"),
-  keyhole_aspect: at("margin_keyhole_aspect"),
-  keyhole_enthalpy: at("margin_keyhole_enthalpy"),
-};
+/** Context id, P, v, d, h, t and the ambient temperature: what a melt-pool solve depends on. */
+const MEMO_KEY_WIDTH = 7;
 
 /** Provenance of a row. */
 export interface RowProvenance {
@@ -181,14 +195,15 @@ const num = (x: number | null | undefined): number => (x === null || x === undef
 const MIXTURE_WIDTH = FEATURE_CATALOGUE.filter((d) => d.group === "mixture").length;
 
 /**
- * A feature computer for the chosen groups; composition columns for the given elements.
+ * A feature computer for the chosen groups; composition columns for the given elements;
+ * `expectedRows` sizes its memo (a hint only).
  *
  * @example
  * const fc = createFeatureComputer(["process", "energy"], []);
  * const out = new Float64Array(fc.columns.length);
  * fc.compute(point, materialContext("316L", comp), { recordQuality: 0.8, sourceYear: 2021 }, out); // out = [200, 800, …, 83.33]
  */
-export function createFeatureComputer(groups: readonly FeatureGroup[], compositionElements: readonly string[]): FeatureComputer {
+export function createFeatureComputer(groups: readonly FeatureGroup[], compositionElements: readonly string[], expectedRows = 1024): FeatureComputer {
   const chosen = new Set(groups);
   const columns: FeatureDef[] = [];
   const sortedElements = [...compositionElements].sort();
@@ -198,11 +213,16 @@ export function createFeatureComputer(groups: readonly FeatureGroup[], compositi
     else columns.push(...FEATURE_CATALOGUE.filter((d) => d.group === g));
   }
   const width = MELTPOOL_NAMES.length;
-  let pool = new Float64Array(width * 1024);
+  // Sized for the rows to come (at most one solve per row), so neither the pool nor the memo grows on the way.
+  const capacity = Math.max(16, Math.min(expectedRows, 1 << 22));
+  let pool = new Float64Array(width * capacity);
   let used = 0;
-  const memo = new Map<string, number>();
+  const memo = new TupleMemo(MEMO_KEY_WIDTH, capacity);
   const ctxIds = new Map<string, number>();
   const mixtureRows = new Map<string, Float64Array>();
+
+  const key: (number | null)[] = new Array<number | null>(MEMO_KEY_WIDTH).fill(null);
+  const solved = new Float64Array(MELTPOOL_SLOT_COUNT);
 
   const meltpool = (p: ProcessPoint, ctx: MaterialContext, out: Float64Array, at: number): void => {
     const m = ctx.material;
@@ -213,9 +233,15 @@ export function createFeatureComputer(groups: readonly FeatureGroup[], compositi
     const ambient = p.preheatC === null ? AMBIENT_WITHOUT_PREHEAT_K : p.preheatC + KELVIN_AT_ZERO_CELSIUS;
     let id = ctxIds.get(ctx.key);
     if (id === undefined) ctxIds.set(ctx.key, (id = ctxIds.size));
-    const key = `${id}|${p.laserPowerW}|${p.scanSpeedMmPerS}|${p.spotDiameterUm}|${p.hatchSpacingUm}|${p.layerThicknessUm}|${ambient}`;
+    key[0] = id;
+    key[1] = p.laserPowerW;
+    key[2] = p.scanSpeedMmPerS;
+    key[3] = p.spotDiameterUm;
+    key[4] = p.hatchSpacingUm;
+    key[5] = p.layerThicknessUm;
+    key[6] = ambient;
     const hit = memo.get(key);
-    if (hit !== undefined) {
+    if (hit >= 0) {
       out.set(pool.subarray(hit, hit + width), at);
       return;
     }
@@ -227,32 +253,32 @@ export function createFeatureComputer(groups: readonly FeatureGroup[], compositi
     const at0 = used;
     pool.fill(NaN, at0, at0 + width);
     try {
-      const a = analyzeMeltPool(
-        { laserPowerW: p.laserPowerW, scanSpeedMmPerS: p.scanSpeedMmPerS, spotDiameterUm: p.spotDiameterUm, hatchSpacingUm: p.hatchSpacingUm, layerThicknessUm: p.layerThicknessUm, ambientTemperatureK: ambient, material: m },
-        { method: "surface" },
-      );
-      const { widthUm: w, depthUm: d, lengthUm: l } = a.pool;
-      const melted = a.pool.melted;
-      const put = (j: number, v: number | null) => (pool[at0 + j] = num(roundSig(v)));
+      meltPoolInto(p.laserPowerW, p.scanSpeedMmPerS, p.spotDiameterUm, p.hatchSpacingUm, p.layerThicknessUm, ambient, m, solved, 0);
+      const w = solved[MELTPOOL_SLOTS.widthUm]!;
+      const d = solved[MELTPOOL_SLOTS.depthUm]!;
+      const l = solved[MELTPOOL_SLOTS.lengthUm]!;
+      const melted = solved[MELTPOOL_SLOTS.melted] === 1;
+      const put = (j: number, v: number) => (pool[at0 + j] = roundSigOrNaN(v));
       put(MP.width, w);
       put(MP.depth, d);
       put(MP.length, l);
-      put(MP.peak, a.pool.peakTemperatureK);
-      put(MP.enthalpy, a.normalizedEnthalpy);
+      put(MP.peak, solved[MELTPOOL_SLOTS.peakTemperatureK]!);
+      put(MP.enthalpy, solved[MELTPOOL_SLOTS.normalizedEnthalpy]!);
       put(MP.widthToDepth, melted ? ratio(w, d) : NaN);
       put(MP.lengthToWidth, melted ? ratio(l, w) : NaN);
       put(MP.hatchToWidth, melted && p.hatchSpacingUm !== null ? ratio(p.hatchSpacingUm, w) : NaN);
       put(MP.depthToLayer, p.layerThicknessUm !== null ? ratio(d, p.layerThicknessUm) : NaN);
       put(MP.absorptivity, m.absorptivity);
       put(MP.estimated, ctx.propertiesEstimated ? 1 : 0);
-      for (const c of a.criteria) {
-        const j = MARGIN_INDEX[c.name];
-        if (j !== undefined) put(j, c.margin);
-      }
+      put(MP.marginLackOfFusionDepth, solved[MELTPOOL_SLOTS.marginLackOfFusionDepth]!);
+      put(MP.marginLackOfFusionOverlap, solved[MELTPOOL_SLOTS.marginLackOfFusionOverlap]!);
+      put(MP.marginBalling, solved[MELTPOOL_SLOTS.marginBalling]!);
+      put(MP.marginKeyholeAspect, solved[MELTPOOL_SLOTS.marginKeyholeAspect]!);
+      put(MP.marginKeyholeEnthalpy, solved[MELTPOOL_SLOTS.marginKeyholeEnthalpy]!);
     } catch (error) {
       if (!(error instanceof RangeError)) throw error;
     }
-    memo.set(key, at0);
+    memo.add(key, at0);
     used += width;
     out.set(pool.subarray(at0, at0 + width), at);
   };
@@ -283,9 +309,9 @@ export function createFeatureComputer(groups: readonly FeatureGroup[], compositi
     }
     if (chosen.has("energy")) {
       const e = energyDensities(p);
-      out[at++] = num(roundSig(e.linearJPerMm));
-      out[at++] = num(roundSig(e.arealJPerMm2));
-      out[at++] = num(roundSig(e.volumetricJPerMm3));
+      out[at++] = roundSigOrNaN(num(e.linearJPerMm));
+      out[at++] = roundSigOrNaN(num(e.arealJPerMm2));
+      out[at++] = roundSigOrNaN(num(e.volumetricJPerMm3));
     }
     if (chosen.has("meltpool")) {
       meltpool(p, ctx, out, at);

@@ -4,7 +4,7 @@
  * the core stays pure.
  */
 import type { BuiltExport } from "./build";
-import { writeCsv } from "./csv-writer";
+import { writeCsvBytes } from "./csv-writer";
 import { renderDatasheet } from "./datasheet";
 import { buildManifest, type ExportFileEntry } from "./manifest";
 import { writeParquet } from "./parquet";
@@ -30,7 +30,7 @@ export function exportFiles(built: BuiltExport, options: ExportOptions, toolVers
     files.push({ name, bytes });
     entries.push({ name, rows, bytes: bytes.byteLength, sha256: sha256Hex(bytes) });
   };
-  for (const t of built.tables) add(`${t.name}.csv`, encoder.encode(writeCsv(built.columns, t.table)), t.table.rowCount);
+  for (const t of built.tables) add(`${t.name}.csv`, writeCsvBytes(built.columns, t.table), t.table.rowCount);
   for (const t of built.tables) add(`${t.name}.parquet`, writeParquet(built.columns, t.table, `meltledger ${toolVersion}`), t.table.rowCount);
   add("DATASHEET.md", encoder.encode(renderDatasheet(built, options, toolVersion, entries)), null);
   const manifest = buildManifest(built, options, toolVersion, entries);

@@ -25,8 +25,10 @@ export function writeParquet(columns: readonly TableColumn[], data: ColumnarTabl
       hasEmpty = true;
       break;
     }
-    const typed = c.kind === "integer" ? Int32Array.from(values) : Float64Array.from(values);
-    const out = hasEmpty ? Array.from(values, (v, i) => (Number.isNaN(v) ? null : typed[i]!)) : typed;
+    // The writer copies each row group itself: a number column goes in as the table's own array.
+    // Whole-number columns become INT32 (ToInt32, as Int32Array.from converts).
+    const integer = c.kind === "integer";
+    const out = hasEmpty ? Array.from(values, (v) => (Number.isNaN(v) ? null : integer ? v | 0 : v)) : integer ? Int32Array.from(values) : values;
     return { name: c.name, data: out, type: TYPE[c.kind], nullable: true, encoding: "PLAIN" as const };
   });
   const buffer = parquetWriteBuffer({ columnData, createdBy, rowGroupSize: Math.max(table.rowCount, 1), statistics: false });

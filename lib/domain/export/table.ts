@@ -39,12 +39,21 @@ export class ColumnarTable {
     if (this.size === this.capacity) this.grow();
     const r = this.size++;
     const width = this.columns.length;
-    for (let c = 0; c < width; c++) {
-      const v = c < cells.length ? cells[c]! : numbers ? numbers[c - cells.length]! : NaN;
-      const text = this.texts[c];
-      if (text) text.push(v === null || (typeof v === "number" && Number.isNaN(v)) ? null : String(v));
-      else this.numbers[c]![r] = typeof v === "number" ? v : v === null ? NaN : Number(v);
+    const head = Math.min(cells.length, width);
+    for (let c = 0; c < head; c++) this.put(c, r, cells[c]!);
+    for (let c = head; c < width; c++) {
+      const column = this.numbers[c];
+      const v = numbers ? numbers[c - cells.length] : NaN;
+      // Number columns from a Float64Array take the value as it is; anything else goes the general way.
+      if (column && v !== undefined) column[r] = v;
+      else this.put(c, r, v as Cell);
     }
+  }
+
+  private put(c: number, r: number, v: Cell): void {
+    const text = this.texts[c];
+    if (text) text.push(v === null || (typeof v === "number" && Number.isNaN(v)) ? null : String(v));
+    else this.numbers[c]![r] = typeof v === "number" ? v : v === null ? NaN : Number(v);
   }
 
   /** One cell: a number, text or null. */
