@@ -35,8 +35,10 @@ async function main() {
     for (const f of figures) {
       all.push({ ...f, suite: name });
       const base = f.baseline ? ` | baseline ${f.baseline.name}: ${fmt(f.baseline.value)} ${f.baseline.unit}` : "";
-      const ratio = f.ratio ? ` | ratio ${fmt(f.ratio.value)}${f.ratio.target ? ` (target ${f.ratio.target})` : ""}` : "";
-      console.log(`${f.pass ? "MET " : "MISS"} [${name}] ${f.name}: ${fmt(f.value)} ${f.unit} (target ${f.target})${base}${ratio}${f.notes ? ` — ${f.notes}` : ""}`);
+      const ratio = f.ratio ? ` | ratio ${fmt(f.ratio.value)}${f.ratio.target ? ` (target ${f.ratio.target}${f.ratio.pass === false ? ", missed" : ""})` : ""}` : "";
+      // A figure with a ratio target is met only when both its value and its ratio are.
+      const met = f.pass && f.ratio?.pass !== false;
+      console.log(`${met ? "MET " : "MISS"} [${name}] ${f.name}: ${fmt(f.value)} ${f.unit} (target ${f.target})${base}${ratio}${f.notes ? ` — ${f.notes}` : ""}`);
     }
   }
   mkdirSync("bench-results", { recursive: true });

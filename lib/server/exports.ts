@@ -5,6 +5,7 @@
  */
 import { createHash } from "node:crypto";
 import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { writeFile } from "node:fs/promises";
 import path from "node:path";
 import packageJson from "../../package.json";
 import { appendAuditRaw } from "../db/audit-raw";
@@ -12,12 +13,13 @@ import { sqlite } from "../db/connection";
 import { exportRunNamesLike, getExportRun, insertExportRunRaw, listExportRuns, loadExportRecords, loadExportSources, type ExportRunRow } from "../db/exports";
 import { resolveDatabaseLocation } from "../db/location";
 import { buildTrainingSet, type BuiltExport } from "../domain/export/build";
-import { exportFiles } from "../domain/export/files";
+import { exportFilesWith } from "../domain/export/files";
 import { allowedStatuses } from "../domain/export/filters";
 import type { ExportFileEntry } from "../domain/export/manifest";
 import type { ExportOptions } from "../domain/export/types";
 import { EXPORT_FILE_PATTERN, EXPORT_NAME_PATTERN, exportRequestSchema, requestFromOptions, toExportOptions, type ExportRequest } from "../schemas/export";
 import { requireRole, type Actor } from "./actor";
+import { parquetEncoder } from "./parquet-encoder";
 import { fail, guard, invalid, ok, type Result } from "./result";
 
 export const TOOL_VERSION: string = packageJson.version;
@@ -131,19 +133,43 @@ export async function createExport(input: unknown, actor: Actor, options: Create
     if (p.request.name && getExportRun(sqlite(), p.request.name)) {
       return fail("conflict", `An export named "${p.request.name}" already exists; choose another name or run that one again.`, { fieldErrors: { name: ["This name is taken."] } });
     }
-    const r = build(p.options, clock);
-    if (!r.ok) return fail("invalid_input", `${r.problem.message} Nothing was written.`, { problem: r.problem.code, ...r.problem.details });
-    const t1 = clock();
-    const { files, entries } = exportFiles(r.built, p.options, TOOL_VERSION, sha256Hex);
-    const t2 = clock();
+    // The Parquet worker starts now, so it is ready by the time the tables are built.
+    const encoder = parquetEncoder();
     const name = p.request.name ?? uniqueName(options.fallbackName ?? defaultName(p.options));
     const root = exportsDir();
-    mkdirSync(root, { recursive: true });
     // Written beside the final folder and renamed into place, so a run is there whole or not at all.
     const staging = path.join(root, `.staging-${process.pid}-${name}`);
-    rmSync(staging, { recursive: true, force: true });
-    mkdirSync(staging);
-    for (const f of files) writeFileSync(path.join(staging, f.name), f.bytes);
+    let written: Awaited<ReturnType<typeof exportFilesWith>>;
+    let r: ReturnType<typeof build>;
+    let t1: number;
+    try {
+      r = build(p.options, clock);
+      if (!r.ok) return fail("invalid_input", `${r.problem.message} Nothing was written.`, { problem: r.problem.code, ...r.problem.details });
+      t1 = clock();
+      mkdirSync(root, { recursive: true });
+      rmSync(staging, { recursive: true, force: true });
+      mkdirSync(staging);
+      // Each data file goes to disk (on the I/O threads) as soon as it is ready, while the next is encoded.
+      const writes: Promise<void>[] = [];
+      const writeOut = (f: { name: string; bytes: Uint8Array }) => {
+        const w = writeFile(path.join(staging, f.name), f.bytes);
+        w.catch(() => undefined); // awaited below
+        writes.push(w);
+      };
+      try {
+        written = await exportFilesWith(r.built, p.options, TOOL_VERSION, sha256Hex, (input, createdBy) => encoder.encode(input, createdBy), writeOut);
+        for (const f of written.files) if (f.name === "DATASHEET.md" || f.name === "manifest.json") writeOut(f);
+        await Promise.all(writes);
+      } catch (error) {
+        await Promise.allSettled(writes);
+        rmSync(staging, { recursive: true, force: true });
+        throw error;
+      }
+    } finally {
+      await encoder.close();
+    }
+    const { files, entries } = written;
+    const t2 = clock();
     const folder = path.join(root, name);
     const counts = countsOf(r.built);
     const fileHashes = Object.fromEntries([...entries.map((e) => [e.name, e.sha256] as const), ["manifest.json", sha256Hex(files.at(-1)!.bytes)] as const]);
@@ -166,7 +192,7 @@ export async function createExport(input: unknown, actor: Actor, options: Create
     }
     const t3 = clock();
     const allEntries = [...entries, { name: "manifest.json", rows: null, bytes: files.at(-1)!.bytes.byteLength, sha256: fileHashes["manifest.json"]! }];
-    return ok({ name, folder, files: allEntries, counts, warnings: r.built.warnings, ms: t3 - t0, timings: { ...r.built.timings, "build total": t1 - t0, "files (CSV, Parquet, datasheet)": t2 - t1, "write and record": t3 - t2 } });
+    return ok({ name, folder, files: allEntries, counts, warnings: r.built.warnings, ms: t3 - t0, timings: { ...r.built.timings, "build total": t1 - t0, "files (CSV, Parquet, datasheet, written to disk)": t2 - t1, "rename and record": t3 - t2 } });
   });
 }
 
