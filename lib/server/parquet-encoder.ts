@@ -43,7 +43,9 @@ export function parquetEncoder(): ParquetEncoder {
   let worker: Worker | null = null;
   if (file) {
     try {
-      worker = new Worker(file);
+      // Constructed by reflection so the web server's bundler does not try to bundle the worker:
+      // it is a plain script, loaded from the project folder at run time.
+      worker = Reflect.construct(Worker, [file]) as Worker;
     } catch (error) {
       console.warn(`[meltledger] Parquet worker did not start (${(error as Error).message}); encoding in the main thread`);
     }
