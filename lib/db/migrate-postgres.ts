@@ -1,5 +1,5 @@
 import { randomUUID } from "node:crypto";
-import { defaultPostgresMigrationsDir, MigrationError, readMigrations, type MigrationFile, type MigrationResult } from "./migrate";
+import { defaultPostgresMigrationsDir, isApplied, MigrationError, readMigrations, type MigrationFile, type MigrationResult } from "./migrate";
 import type { PostgresClient } from "./postgres";
 
 // The table Prisma Migrate keeps on PostgreSQL, column for column, so its tooling reads our history.
@@ -37,11 +37,7 @@ export async function migratePostgres(client: PostgresClient, migrations: Migrat
     const done = new Map(rows.map((r) => [r.migration_name, r.checksum]));
     const result: MigrationResult = { applied: [], alreadyApplied: [] };
     for (const m of migrations) {
-      const known = done.get(m.name);
-      if (known !== undefined) {
-        if (known !== m.checksum) {
-          throw new MigrationError(`Migration ${m.name} was changed after it was applied (checksum differs). Add a new migration instead of editing an applied one.`, m.name);
-        }
+      if (isApplied(done, m)) {
         result.alreadyApplied.push(m.name);
         continue;
       }

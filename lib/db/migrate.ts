@@ -70,6 +70,19 @@ export class MigrationError extends Error {
  * `_prisma_migrations`. A recorded migration whose file has changed stops the run: history is
  * never rewritten silently.
  */
+/**
+ * Whether the history (name → checksum of finished migrations) already holds this migration; a
+ * migration whose file changed after it was applied is refused. Shared by both engines' runners.
+ */
+export function isApplied(done: ReadonlyMap<string, string>, m: MigrationFile): boolean {
+  const known = done.get(m.name);
+  if (known === undefined) return false;
+  if (known !== m.checksum) {
+    throw new MigrationError(`Migration ${m.name} was changed after it was applied (checksum differs). Add a new migration instead of editing an applied one.`, m.name);
+  }
+  return true;
+}
+
 export function migrate(db: SqliteDatabase, migrations: MigrationFile[] = readMigrations(), now: () => Date = () => new Date()): MigrationResult {
   db.exec(HISTORY_TABLE);
   const done = new Map(
@@ -78,11 +91,7 @@ export function migrate(db: SqliteDatabase, migrations: MigrationFile[] = readMi
   const result: MigrationResult = { applied: [], alreadyApplied: [] };
   const record = db.prepare(`INSERT INTO "_prisma_migrations" (id, checksum, finished_at, migration_name, started_at, applied_steps_count) VALUES (?, ?, ?, ?, ?, 1)`);
   for (const m of migrations) {
-    const known = done.get(m.name);
-    if (known !== undefined) {
-      if (known !== m.checksum) {
-        throw new MigrationError(`Migration ${m.name} was changed after it was applied (checksum differs). Add a new migration instead of editing an applied one.`, m.name);
-      }
+    if (isApplied(done, m)) {
       result.alreadyApplied.push(m.name);
       continue;
     }
