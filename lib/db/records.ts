@@ -4,6 +4,7 @@ import type { RecordsQuery, RecordSortKey } from "../schemas/records-query";
 import { prismaReady } from "./client";
 import type { Statement } from "better-sqlite3";
 import { sqlite, type SqliteDatabase } from "./connection";
+import type { SqlExecutor } from "./sql";
 
 type Tx = Prisma.TransactionClient;
 
@@ -250,8 +251,11 @@ export interface CollectionStats {
   byOutcome: Record<string, number>;
 }
 
-export function collectionStats(db: SqliteDatabase = sqlite()): CollectionStats {
-  const rows = db.prepare(`SELECT alloyKey, status, COUNT(*) AS n FROM BuildRecord GROUP BY alloyKey, status`).all() as { alloyKey: string; status: string; n: number }[];
+/** Record counts by status, alloy and outcome, and the number of sources. Engine-neutral (sql.ts). */
+export async function collectionStats(db: SqlExecutor): Promise<CollectionStats> {
+  const rows = await db.all<{ alloyKey: string; status: string; n: number }>(
+    `SELECT "alloyKey" AS "alloyKey", "status", COUNT(*) AS n FROM "BuildRecord" GROUP BY "alloyKey", "status" ORDER BY "alloyKey", "status"`,
+  );
   const byStatus: Record<string, number> = {};
   const alloys = new Map<string, { alloyKey: string; count: number; byStatus: Record<string, number> }>();
   let records = 0;
@@ -263,8 +267,9 @@ export function collectionStats(db: SqliteDatabase = sqlite()): CollectionStats 
     a.byStatus[r.status] = (a.byStatus[r.status] ?? 0) + r.n;
     alloys.set(r.alloyKey, a);
   }
-  const byOutcome = Object.fromEntries((db.prepare(`SELECT outcome, COUNT(*) AS n FROM BuildRecord GROUP BY outcome`).all() as { outcome: string; n: number }[]).map((r) => [r.outcome, r.n]));
-  const sources = (db.prepare(`SELECT COUNT(*) AS n FROM Source`).get() as { n: number }).n;
+  const byOutcome = Object.fromEntries((await db.all<{ outcome: string; n: number }>(`SELECT "outcome", COUNT(*) AS n FROM "BuildRecord" GROUP BY "outcome"`)).map((r) => [r.outcome, r.n]));
+  const sources = (await db.get<{ n: number }>(`SELECT COUNT(*) AS n FROM "Source"`))!.n;
+  // stable sort: equal counts stay in alloy order
   return { records, sources, byStatus, byAlloy: [...alloys.values()].sort((a, b) => b.count - a.count), byOutcome };
 }
 
