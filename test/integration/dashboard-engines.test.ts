@@ -1,13 +1,11 @@
 // The home overview (getDashboard: collection counts, open-flag counts, recent audit events) on
 // both engines with the same test. The data is written with each engine's own driver, and the
 // expected figures are counted from that same data in plain JavaScript, not by SQL.
-import Database from "better-sqlite3";
 import { beforeAll, expect, test } from "vitest";
 import type { Dashboard } from "@/lib/server/dashboard";
 import { getDashboard } from "@/lib/server/dashboard";
 import { getFlagCounts } from "@/lib/server/flags";
-import { describeEachEngine, type EngineDatabase } from "../support/engines";
-import { withClient } from "../support/postgres";
+import { describeEachEngine, insertRows, type TableRows } from "../support/engines";
 
 const AT = "2026-11-30T08:00:00.000Z";
 const SOURCES = [
@@ -32,8 +30,7 @@ const FLAGS = [
 ];
 const EVENTS = Array.from({ length: 14 }, (_, i) => ({ id: i + 1, action: i % 2 ? "record.update" : "record.create", entityId: String((i % 6) + 1), at: new Date(Date.parse(AT) + i * 60_000).toISOString() }));
 
-type Row = Record<string, string | number | null>;
-const TABLES: [string, Row[]][] = [
+const TABLES: TableRows[] = [
   ["Source", SOURCES.map((s) => ({ id: s.id, kind: "article", title: s.title, titleKey: s.title.toLowerCase(), updatedAt: AT }))],
   ["Material", [{ id: 1, designation: "invented", alloyKey: "mixed", fingerprint: "m1" }]],
   ["BuildRecord", RECORDS.map((r) => ({ ...r, materialId: 1, updatedAt: AT }))],
@@ -41,37 +38,12 @@ const TABLES: [string, Row[]][] = [
   ["AuditEvent", EVENTS.map((e) => ({ ...e, actorName: "local", entityType: "record" }))],
 ];
 
-/** Writes the rows with the engine's own driver, ids as given. */
-async function seed(at: EngineDatabase): Promise<void> {
-  const statements = TABLES.flatMap(([table, rows]) =>
-    rows.map((row) => {
-      const cols = Object.keys(row);
-      return { text: `INSERT INTO "${table}" (${cols.map((c) => `"${c}"`).join(", ")}) VALUES (${cols.map(() => "?").join(", ")})`, values: Object.values(row) };
-    }),
-  );
-  if (at.engine === "sqlite") {
-    const db = new Database(at.url.replace(/^file:/, ""));
-    try {
-      db.transaction(() => statements.forEach((s) => db.prepare(s.text).run(...s.values)))();
-    } finally {
-      db.close();
-    }
-    return;
-  }
-  await withClient(at.url, async (c) => {
-    for (const s of statements) {
-      let n = 0;
-      await c.query(s.text.replace(/\?/g, () => `$${++n}`), s.values);
-    }
-  });
-}
-
 const countBy = <T>(items: T[], key: (t: T) => string) => items.reduce<Record<string, number>>((acc, t) => ((acc[key(t)] = (acc[key(t)] ?? 0) + 1), acc), {});
 
 describeEachEngine("home overview", (current) => {
   let dashboard: Dashboard;
   beforeAll(async () => {
-    await seed(current());
+    await insertRows(current(), TABLES);
     const result = await getDashboard();
     if (!result.ok) throw new Error(`getDashboard failed: ${JSON.stringify(result.error)}`);
     dashboard = result.data;

@@ -2,6 +2,7 @@
 // on the PostgreSQL test server when there is one (describePostgres: skipped, or failed where
 // required, without it). DATABASE_URL points at the engine's database for the duration of its
 // block, so code that picks its engine from the URL (sql(), prisma()) runs on it.
+import Database from "better-sqlite3";
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -13,7 +14,7 @@ import { migrate } from "@/lib/db/migrate";
 import { migratePostgres } from "@/lib/db/migrate-postgres";
 import { withPostgres } from "@/lib/db/postgres";
 import { closeSql } from "@/lib/db/sql";
-import { describePostgres, useTempPostgres } from "./postgres";
+import { describePostgres, useTempPostgres, withClient } from "./postgres";
 
 export interface EngineDatabase {
   engine: DatabaseEngine;
@@ -71,4 +72,37 @@ async function releaseConnections(): Promise<void> {
 
 function fail(): never {
   throw new Error("describeEachEngine: the database is ready from the block's beforeAll hooks on, not while tests are being collected");
+}
+
+/** Rows for one table, column names as in the schema. */
+export type TableRows = [table: string, rows: Record<string, string | number | null>[]];
+
+/**
+ * Writes rows with the engine's own driver (better-sqlite3 or pg, not lib/db), ids as given, in
+ * one transaction, tables in the order listed.
+ */
+export async function insertRows(at: EngineDatabase, tables: readonly TableRows[]): Promise<void> {
+  const statements = tables.flatMap(([table, rows]) =>
+    rows.map((row) => {
+      const cols = Object.keys(row);
+      return { text: `INSERT INTO "${table}" (${cols.map((c) => `"${c}"`).join(", ")}) VALUES (${cols.map(() => "?").join(", ")})`, values: Object.values(row) };
+    }),
+  );
+  if (at.engine === "sqlite") {
+    const db = new Database(at.url.replace(/^file:/, ""));
+    try {
+      db.transaction(() => statements.forEach((s) => db.prepare(s.text).run(...s.values)))();
+    } finally {
+      db.close();
+    }
+    return;
+  }
+  await withClient(at.url, async (c) => {
+    await c.query("BEGIN");
+    for (const s of statements) {
+      let n = 0;
+      await c.query(s.text.replace(/\?/g, () => `$${++n}`), s.values);
+    }
+    await c.query("COMMIT");
+  });
 }
