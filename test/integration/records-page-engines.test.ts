@@ -79,9 +79,12 @@ describeEachEngine("records table page", (current) => {
     expect(byAlloy.ids).toEqual(RECORDS.filter((r) => r.alloyKey === "Ti-6Al-4V").map((r) => r.id));
   });
 
-  test("a % or _ in the search is a character, not a wildcard", async () => {
+  test("a %, _ or backslash in the search is a character, not a wildcard or an escape", async () => {
     expect((await page({ search: "%", pageSize: 100 })).total).toBe(0);
     expect((await page({ search: "_", pageSize: 100 })).total).toBe(0);
+    // unescaped, "M\\1" would mean "M1" and find the M1x printers
+    expect((await page({ search: "M1", pageSize: 100 })).total).toBeGreaterThan(0);
+    expect((await page({ search: "M\\1", pageSize: 100 })).total).toBe(0);
   });
 
   test("rows carry their values, the source's label and the update time as ISO UTC", async () => {
