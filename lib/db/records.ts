@@ -3,7 +3,7 @@ import type { NormalizedQuantities } from "../schemas/record";
 import type { RecordsQuery, RecordSortKey } from "../schemas/records-query";
 import { prismaReady } from "./client";
 import type { Statement } from "better-sqlite3";
-import { sqlite, type SqliteDatabase } from "./connection";
+import type { SqliteDatabase } from "./connection";
 import type { DatabaseEngine } from "./location";
 import { sqliteNullOrder, type SqlExecutor, type SqlValue } from "./sql";
 
@@ -281,6 +281,7 @@ export async function collectionStats(db: SqlExecutor): Promise<CollectionStats>
   return { records, sources, byStatus, byAlloy: [...alloys.values()].sort((a, b) => b.count - a.count), byOutcome };
 }
 
-export function distinctAlloys(db: SqliteDatabase = sqlite()): string[] {
-  return (db.prepare(`SELECT DISTINCT alloyKey FROM BuildRecord ORDER BY alloyKey`).all() as { alloyKey: string }[]).map((r) => r.alloyKey);
+/** The alloy keys present in the collection, sorted. Engine-neutral (sql.ts). */
+export async function distinctAlloys(db: SqlExecutor): Promise<string[]> {
+  return (await db.all<{ alloyKey: string }>(`SELECT DISTINCT "alloyKey" AS "alloyKey" FROM "BuildRecord" ORDER BY "alloyKey"`)).map((r) => r.alloyKey);
 }

@@ -4,6 +4,7 @@
 // plain JavaScript (SQLite's order: missing values first ascending, last descending; id breaks ties).
 import { beforeAll, expect, test } from "vitest";
 import { listRecords } from "@/lib/server/records";
+import { getRecordsBrowser } from "@/lib/server/records-facets";
 import { describeEachEngine, insertRows, type TableRows } from "../support/engines";
 
 const AT = "2026-11-29T12:00:00.000Z";
@@ -85,6 +86,14 @@ describeEachEngine("records table page", (current) => {
     // unescaped, "M\\1" would mean "M1" and find the M1x printers
     expect((await page({ search: "M1", pageSize: 100 })).total).toBeGreaterThan(0);
     expect((await page({ search: "M\\1", pageSize: 100 })).total).toBe(0);
+  });
+
+  test("the records page's first render: alloy choices sorted, every source offered, the requested page", async () => {
+    const result = await getRecordsBrowser({ alloy: ["AlSi10Mg"], sort: "id", direction: "asc", pageSize: 4 });
+    if (!result.ok) throw new Error(`getRecordsBrowser failed: ${JSON.stringify(result.error)}`);
+    expect(result.data.facets.alloys).toEqual([...new Set(RECORDS.map((r) => r.alloyKey))].sort());
+    expect(result.data.facets.sources.map((s) => s.id).sort()).toEqual(SOURCES.map((s) => s.id).sort());
+    expect(result.data.page?.rows.map((r) => r.id)).toEqual(expectedPage((r) => r.alloyKey === "AlSi10Mg", "id", "asc", 0, 4).ids);
   });
 
   test("rows carry their values, the source's label and the update time as ISO UTC", async () => {
