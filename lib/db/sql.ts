@@ -272,15 +272,15 @@ class SqliteSql implements SqlDatabase {
       // IMMEDIATE takes the write lock now, so what the body reads cannot change before it writes;
       // a read-only transaction reads one WAL snapshot from its first read.
       this.db.exec(readOnly ? "BEGIN DEFERRED" : "BEGIN IMMEDIATE");
-      let result: T;
       try {
-        result = await this.inTransaction.run(true, () => body(tx));
+        const result = await this.inTransaction.run(true, () => body(tx));
+        // COMMIT itself can fail (a deferred foreign key, a full disk) and leave the transaction open
+        this.db.exec("COMMIT");
+        return result;
       } catch (error) {
         if (this.db.inTransaction) this.db.exec("ROLLBACK");
         throw error;
       }
-      this.db.exec("COMMIT");
-      return result;
     } finally {
       open = false;
       this.busy = null;

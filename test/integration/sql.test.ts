@@ -111,6 +111,21 @@ describeEachEngine("engine-neutral SQL", (current) => {
     expect(await direct(current(), `SELECT "notes" FROM "Source" WHERE "year" = 2021`)).toEqual([{ notes: "checked" }]);
   });
 
+  test("a transaction refused at COMMIT writes nothing and leaves the database usable", async () => {
+    const db = sql();
+    const before = await direct<{ n: unknown }>(current(), `SELECT COUNT(*) AS n FROM "Material"`);
+    await expect(
+      db.transaction(async (tx) => {
+        // SQLite checks foreign keys at COMMIT with this pragma; PostgreSQL's are not deferrable and refuse the insert at once
+        if (tx.engine === "sqlite") await tx.run(`PRAGMA defer_foreign_keys = ON`);
+        await tx.run(`INSERT INTO "Material" ("designation", "alloyKey", "fingerprint") VALUES ('orphan', 'x', 'orphan')`);
+        await tx.run(`INSERT INTO "BuildRecord" ("sourceId", "materialId", "alloyKey", "updatedAt") VALUES (?, ?, 'x', ?)`, [999_999, 999_999, new Date(NOW)]);
+      }),
+    ).rejects.toThrow(/foreign key/i);
+    expect(await direct<{ n: unknown }>(current(), `SELECT COUNT(*) AS n FROM "Material"`)).toEqual(before);
+    expect(await db.transaction((tx) => tx.get<{ n: number }>(`SELECT COUNT(*) AS n FROM "Source"`))).toEqual({ n: 3 });
+  });
+
   test("a read-only transaction refuses a write, on both engines", async () => {
     const db = sql();
     await expect(db.transaction((tx) => tx.run(`UPDATE "Source" SET "notes" = 'no' WHERE "year" = 2021`), { readOnly: true })).rejects.toThrow(/read-only/);
