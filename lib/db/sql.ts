@@ -15,7 +15,7 @@
 import { AsyncLocalStorage } from "node:async_hooks";
 import type { Statement } from "better-sqlite3";
 import pg from "pg";
-import { sqlite, type SqliteDatabase } from "./connection";
+import { openSqlite, sqlite, type SqliteDatabase } from "./connection";
 import { resolveDatabaseTarget, type DatabaseEngine } from "./location";
 
 /** A parameter: Dates are stored as UTC timestamps, booleans as booleans (0/1 in SQLite). */
@@ -160,16 +160,41 @@ function sqliteParams(params: readonly SqlValue[]): unknown[] {
 class SqliteSql implements SqlDatabase {
   readonly engine = "sqlite" as const;
   private readonly statements = new Map<string, SqliteStatement>();
+  private readonly readStatements = new Map<string, SqliteStatement>();
   /** Settles when the open transaction ends; null when none is open. */
   private busy: Promise<void> | null = null;
+  /** The same for read-only transactions, which run on a connection of their own. */
+  private readBusy: Promise<void> | null = null;
+  private readDb: SqliteDatabase | null = null;
   private readonly inTransaction = new AsyncLocalStorage<true>();
 
   constructor(readonly db: SqliteDatabase) {}
 
-  private prepare(sql: string): SqliteStatement {
-    let s = this.statements.get(sql);
+  /**
+   * A read-only connection to the same file for read-only transactions. Their body awaits between
+   * statements, and the raw connection is also used synchronously by the bulk paths: a snapshot
+   * left open on it could take in another caller's writes (and roll them back with its own). On a
+   * connection of its own, a snapshot shares nothing; in WAL mode it never blocks a writer.
+   */
+  private reader(): SqliteDatabase {
+    if (this.readDb?.open) return this.readDb;
+    if (this.db.memory) return this.db; // an in-memory database has no second connection
+    this.readDb = openSqlite(this.db.name, { readonly: true });
+    this.readStatements.clear();
+    return this.readDb;
+  }
+
+  /** Closes the read-only connection, if one was opened. */
+  closeReader(): void {
+    if (this.readDb?.open && this.readDb !== this.db) this.readDb.close();
+    this.readDb = null;
+  }
+
+  private prepare(sql: string, on: SqliteDatabase = this.db): SqliteStatement {
+    const cache = on === this.db ? this.statements : this.readStatements;
+    let s = cache.get(sql);
     if (s) return s;
-    const stmt = this.db.prepare(translateSql(sql, "sqlite"));
+    const stmt = on.prepare(translateSql(sql, "sqlite"));
     let conversions: Conversion[] | null = null;
     if (stmt.reader) {
       for (const col of stmt.columns()) {
@@ -178,9 +203,9 @@ class SqliteSql implements SqlDatabase {
         if (kind) (conversions ??= []).push({ name: col.name, kind });
       }
     }
-    if (this.statements.size >= STATEMENT_CACHE_LIMIT) this.statements.clear();
+    if (cache.size >= STATEMENT_CACHE_LIMIT) cache.clear();
     s = { stmt, conversions };
-    this.statements.set(sql, s);
+    cache.set(sql, s);
     return s;
   }
 
@@ -195,22 +220,22 @@ class SqliteSql implements SqlDatabase {
     return row as T;
   }
 
-  allNow<T>(sql: string, params: readonly SqlValue[], readOnly = false): T[] {
-    const s = this.prepare(sql);
+  allNow<T>(sql: string, params: readonly SqlValue[], readOnly = false, on: SqliteDatabase = this.db): T[] {
+    const s = this.prepare(sql, on);
     this.refuseWrite(s, sql, readOnly);
     const rows = s.stmt.all(...sqliteParams(params));
     if (s.conversions) for (const row of rows) this.convert(s, row);
     return rows as T[];
   }
 
-  getNow<T>(sql: string, params: readonly SqlValue[], readOnly = false): T | undefined {
-    const s = this.prepare(sql);
+  getNow<T>(sql: string, params: readonly SqlValue[], readOnly = false, on: SqliteDatabase = this.db): T | undefined {
+    const s = this.prepare(sql, on);
     this.refuseWrite(s, sql, readOnly);
     return this.convert<T | undefined>(s, s.stmt.get(...sqliteParams(params)));
   }
 
-  runNow(sql: string, params: readonly SqlValue[], readOnly = false): SqlRunResult {
-    const s = this.prepare(sql);
+  runNow(sql: string, params: readonly SqlValue[], readOnly = false, on: SqliteDatabase = this.db): SqlRunResult {
+    const s = this.prepare(sql, on);
     this.refuseWrite(s, sql, readOnly);
     if (s.stmt.reader) {
       // a RETURNING clause: every changed row comes back
@@ -254,36 +279,39 @@ class SqliteSql implements SqlDatabase {
 
   async transaction<T>(body: (tx: SqlExecutor) => Promise<T>, options: TransactionOptions = {}): Promise<T> {
     if (this.inTransaction.getStore()) throw new SqlUsageError("transaction() inside a transaction: transactions do not nest.");
-    while (this.busy) await this.busy;
-    let release!: () => void;
-    this.busy = new Promise<void>((resolve) => (release = resolve));
     const readOnly = options.readOnly ?? false;
+    // Read-only transactions take turns on the read connection, the others on the raw one.
+    const slot = readOnly ? "readBusy" : "busy";
+    while (this[slot]) await this[slot];
+    let release!: () => void;
+    this[slot] = new Promise<void>((resolve) => (release = resolve));
     let open = true;
-    const check = () => {
-      if (!open) throw new SqlUsageError("A query on a transaction that has ended.");
-    };
-    const tx: SqlExecutor = {
-      engine: "sqlite",
-      all: async <R>(sql: string, params: readonly SqlValue[] = []) => (check(), this.allNow<R>(sql, params, readOnly)),
-      get: async <R>(sql: string, params: readonly SqlValue[] = []) => (check(), this.getNow<R>(sql, params, readOnly)),
-      run: async (sql: string, params: readonly SqlValue[] = []) => (check(), this.runNow(sql, params, readOnly)),
-    };
     try {
+      const on = readOnly ? this.reader() : this.db;
+      const check = () => {
+        if (!open) throw new SqlUsageError("A query on a transaction that has ended.");
+      };
+      const tx: SqlExecutor = {
+        engine: "sqlite",
+        all: async <R>(sql: string, params: readonly SqlValue[] = []) => (check(), this.allNow<R>(sql, params, readOnly, on)),
+        get: async <R>(sql: string, params: readonly SqlValue[] = []) => (check(), this.getNow<R>(sql, params, readOnly, on)),
+        run: async (sql: string, params: readonly SqlValue[] = []) => (check(), this.runNow(sql, params, readOnly, on)),
+      };
       // IMMEDIATE takes the write lock now, so what the body reads cannot change before it writes;
       // a read-only transaction reads one WAL snapshot from its first read.
-      this.db.exec(readOnly ? "BEGIN DEFERRED" : "BEGIN IMMEDIATE");
+      on.exec(readOnly ? "BEGIN DEFERRED" : "BEGIN IMMEDIATE");
       try {
         const result = await this.inTransaction.run(true, () => body(tx));
         // COMMIT itself can fail (a deferred foreign key, a full disk) and leave the transaction open
-        this.db.exec("COMMIT");
+        on.exec("COMMIT");
         return result;
       } catch (error) {
-        if (this.db.inTransaction) this.db.exec("ROLLBACK");
+        if (on.inTransaction) on.exec("ROLLBACK");
         throw error;
       }
     } finally {
       open = false;
-      this.busy = null;
+      this[slot] = null;
       release();
     }
   }
@@ -411,6 +439,7 @@ export function sql(): SqlDatabase {
   const cached = globalForSql.meltledgerSql.get(key);
   // the raw SQLite connection may have been closed (closeSqlite) and opened again
   if (cached && (!(cached instanceof SqliteSql) || cached.db.open)) return cached;
+  if (cached instanceof SqliteSql) cached.closeReader();
   const db: SqlDatabase = target.engine === "sqlite" ? new SqliteSql(sqlite()) : postgresSql(target.url);
   globalForSql.meltledgerSql.set(key, db);
   return db;
@@ -429,9 +458,12 @@ export function postgresSql(url: string, options: { max?: number } = {}): SqlDat
   return new PostgresSql(pool);
 }
 
-/** Ends the PostgreSQL pools opened by sql() (the SQLite connection closes with closeSqlite). */
+/** Ends the PostgreSQL pools opened by sql() and SQLite's read-only connections (the raw SQLite connection closes with closeSqlite). */
 export async function closeSql(): Promise<void> {
   const all = [...(globalForSql.meltledgerSql?.values() ?? [])];
   globalForSql.meltledgerSql?.clear();
-  for (const db of all) if (db instanceof PostgresSql) await db.pool.end();
+  for (const db of all) {
+    if (db instanceof PostgresSql) await db.pool.end();
+    else if (db instanceof SqliteSql) db.closeReader();
+  }
 }

@@ -193,6 +193,43 @@ describeEachEngine("engine-neutral SQL", (current) => {
   });
 });
 
+test("SQLite: a write made on the raw connection while a read-only transaction is open is neither seen by it nor undone by its rollback", async () => {
+  // The bulk paths write synchronously on the raw connection, which may fall between the awaits of
+  // a read-only transaction's body; the snapshot must stay apart from it.
+  const { mkdtempSync, rmSync } = await import("node:fs");
+  const os = await import("node:os");
+  const path = await import("node:path");
+  const { closeSqlite, sqlite } = await import("@/lib/db/connection");
+  const { migrate } = await import("@/lib/db/migrate");
+  const { closeSql } = await import("@/lib/db/sql");
+  const dir = mkdtempSync(path.join(os.tmpdir(), "meltledger-snapshot-"));
+  const previous = process.env.DATABASE_URL;
+  process.env.DATABASE_URL = `file:${path.join(dir, "meltledger.db")}`;
+  try {
+    migrate(sqlite());
+    const db = sql();
+    await addSource(db, "Snapshot source", 1999);
+    const count = `SELECT COUNT(*) AS n FROM "Source" WHERE "year" = 1999`;
+    let seenInside = -1;
+    const reading = db.transaction(async (t) => {
+      const before = (await t.get<{ n: number }>(count))!.n;
+      sqlite().transaction(() => {
+        sqlite().prepare(`INSERT INTO "Source" ("kind", "title", "titleKey", "year", "updatedAt") VALUES ('article', 'Written meanwhile', 'written meanwhile', 1999, '2026-12-01T10:15:30.250+00:00')`).run();
+      })();
+      seenInside = (await t.get<{ n: number }>(count))!.n - before;
+      throw new Error("the reader gives up");
+    }, { readOnly: true });
+    await expect(reading).rejects.toThrow("the reader gives up");
+    expect(seenInside).toBe(0); // one snapshot
+    expect((sqlite().prepare(count).get() as { n: number }).n).toBe(2); // the write stands
+  } finally {
+    await closeSql();
+    closeSqlite();
+    process.env.DATABASE_URL = previous;
+    rmSync(dir, { recursive: true, force: true });
+  }
+});
+
 test.each([
   ["SELECT * FROM \"T\" WHERE a = ? AND b = ?", "postgresql", "SELECT * FROM \"T\" WHERE a = $1 AND b = $2"],
   ["SELECT '?', \"we?rd\" FROM t WHERE a = ?", "postgresql", "SELECT '?', \"we?rd\" FROM t WHERE a = $1"],
