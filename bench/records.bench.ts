@@ -112,7 +112,7 @@ export const recordsBench: BenchSuite = async () => {
       const tb = performance.now();
       db.prepare(`SELECT COUNT(*) AS n FROM BuildRecord r INDEXED BY ${RECORD_FILTER_INDEX} ${where.sql}`).get(...where.params);
       const tc = performance.now();
-      db.prepare(`SELECT r.* FROM BuildRecord r ${where.sql} ${recordsOrderBy(parsed)} LIMIT ? OFFSET ?`).all(...where.params, parsed.pageSize, parsed.page * parsed.pageSize);
+      db.prepare(`SELECT r.* FROM BuildRecord r ${where.sql} ${recordsOrderBy(parsed, "sqlite")} LIMIT ? OFFSET ?`).all(...where.params, parsed.pageSize, parsed.page * parsed.pageSize);
       const td = performance.now();
       bareTimes.push(td - tb);
       selectTimes.push(td - tc);

@@ -1,5 +1,6 @@
 import type { Statement } from "better-sqlite3";
 import type { SqliteDatabase } from "./connection";
+import { sqliteNullOrder, type SqlExecutor } from "./sql";
 
 export type FlagState = "open" | "resolved" | "waived";
 
@@ -214,14 +215,21 @@ export interface FlagCounts {
   records: number;
 }
 
-/** Counts of open flags by rule, by source and by severity, and how many records carry one. */
-export function openFlagCounts(db: SqliteDatabase): FlagCounts {
-  const byRule = db.prepare(`SELECT ruleCode, severity, COUNT(*) AS count FROM Flag WHERE state = 'open' GROUP BY ruleCode, severity ORDER BY count DESC, ruleCode`).all() as FlagCounts["byRule"];
-  const bySource = db
-    .prepare(`SELECT f.sourceId AS sourceId, s.title AS title, COUNT(*) AS count FROM Flag f LEFT JOIN Source s ON s.id = f.sourceId WHERE f.state = 'open' GROUP BY f.sourceId ORDER BY count DESC`)
-    .all() as FlagCounts["bySource"];
-  const bySeverity = Object.fromEntries((db.prepare(`SELECT severity, COUNT(*) AS n FROM Flag WHERE state = 'open' GROUP BY severity`).all() as { severity: string; n: number }[]).map((r) => [r.severity, r.n]));
-  const records = (db.prepare(`SELECT COUNT(DISTINCT recordId) AS n FROM Flag WHERE state = 'open'`).get() as { n: number }).n;
+/**
+ * Counts of open flags by rule, by source and by severity, and how many records carry one.
+ * Engine-neutral (sql.ts): runs on SQLite and PostgreSQL alike.
+ */
+export async function openFlagCounts(db: SqlExecutor): Promise<FlagCounts> {
+  const byRule = await db.all<FlagCounts["byRule"][number]>(
+    `SELECT "ruleCode" AS "ruleCode", "severity", COUNT(*) AS count FROM "Flag" WHERE "state" = 'open' GROUP BY "ruleCode", "severity" ORDER BY count DESC, "ruleCode", "severity"`,
+  );
+  // the title is grouped too (PostgreSQL wants every selected column grouped); a source has one title
+  const bySource = await db.all<FlagCounts["bySource"][number]>(
+    `SELECT f."sourceId" AS "sourceId", s."title" AS title, COUNT(*) AS count FROM "Flag" f LEFT JOIN "Source" s ON s."id" = f."sourceId"
+     WHERE f."state" = 'open' GROUP BY f."sourceId", s."title" ORDER BY count DESC, f."sourceId"${sqliteNullOrder(db.engine, "ASC")}`,
+  );
+  const bySeverity = Object.fromEntries((await db.all<{ severity: string; n: number }>(`SELECT "severity", COUNT(*) AS n FROM "Flag" WHERE "state" = 'open' GROUP BY "severity"`)).map((r) => [r.severity, r.n]));
+  const records = (await db.get<{ n: number }>(`SELECT COUNT(DISTINCT "recordId") AS n FROM "Flag" WHERE "state" = 'open'`))!.n;
   return { byRule, bySource, bySeverity, records };
 }
 

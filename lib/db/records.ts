@@ -3,7 +3,9 @@ import type { NormalizedQuantities } from "../schemas/record";
 import type { RecordsQuery, RecordSortKey } from "../schemas/records-query";
 import { prismaReady } from "./client";
 import type { Statement } from "better-sqlite3";
-import { sqlite, type SqliteDatabase } from "./connection";
+import type { SqliteDatabase } from "./connection";
+import type { DatabaseEngine } from "./location";
+import { sqliteNullOrder, type SqlExecutor, type SqlValue } from "./sql";
 
 type Tx = Prisma.TransactionClient;
 
@@ -102,14 +104,14 @@ export async function getRecordDetail(id: number): Promise<RecordDetail | null> 
 }
 
 // ---------------------------------------------------------------------------------------------
-// The records table: raw SQL on the indexed columns, because a page over 100k rows must stay
-// within a few milliseconds of the bare query (see bench/).
+// The records table: hand-written SQL on the indexed columns, because a page over 100k rows must
+// stay within a few milliseconds of the bare query (see bench/). Engine-neutral (sql.ts).
 
 const SORT_COLUMN: Record<RecordSortKey, string> = {
-  id: "r.id", alloyKey: "r.alloyKey", sourceId: "r.sourceId", laserPowerW: "r.laserPowerW", scanSpeedMmPerS: "r.scanSpeedMmPerS",
-  hatchSpacingUm: "r.hatchSpacingUm", layerThicknessUm: "r.layerThicknessUm", spotDiameterUm: "r.spotDiameterUm",
-  volumetricEnergyJMm3: "r.volumetricEnergyJMm3", relativeDensityPct: "r.relativeDensityPct", outcome: "r.outcome",
-  status: "r.status", qualityScore: "r.qualityScore", updatedAt: "r.updatedAt",
+  id: `r."id"`, alloyKey: `r."alloyKey"`, sourceId: `r."sourceId"`, laserPowerW: `r."laserPowerW"`, scanSpeedMmPerS: `r."scanSpeedMmPerS"`,
+  hatchSpacingUm: `r."hatchSpacingUm"`, layerThicknessUm: `r."layerThicknessUm"`, spotDiameterUm: `r."spotDiameterUm"`,
+  volumetricEnergyJMm3: `r."volumetricEnergyJMm3"`, relativeDensityPct: `r."relativeDensityPct"`, outcome: `r."outcome"`,
+  status: `r."status"`, qualityScore: `r."qualityScore"`, updatedAt: `r."updatedAt"`,
 };
 
 export interface RecordTableRow {
@@ -131,22 +133,23 @@ export interface RecordTableRow {
   locationPage: number | null;
   locationLabel: string | null;
   importRow: number | null;
+  /** ISO 8601 UTC. */
   updatedAt: string;
 }
 
-/** Builds the WHERE clause of a records query; exported for the benchmark's bare-query baseline. */
-export function recordsWhere(q: RecordsQuery): { sql: string; params: unknown[] } {
+/** Builds the WHERE clause of a records query (`?` placeholders, sql.ts rules); exported for the benchmark's bare-query baseline. */
+export function recordsWhere(q: RecordsQuery): { sql: string; params: SqlValue[] } {
   const parts: string[] = [];
-  const params: unknown[] = [];
-  const inList = (column: string, values: readonly unknown[]) => {
+  const params: SqlValue[] = [];
+  const inList = (column: string, values: readonly SqlValue[]) => {
     if (!values.length) return;
     parts.push(`${column} IN (${values.map(() => "?").join(",")})`);
     params.push(...values);
   };
-  inList("r.alloyKey", q.alloy);
-  inList("r.sourceId", q.sourceId);
-  inList("r.status", q.status);
-  inList("r.outcome", q.outcome);
+  inList(SORT_COLUMN.alloyKey, q.alloy);
+  inList(SORT_COLUMN.sourceId, q.sourceId);
+  inList(SORT_COLUMN.status, q.status);
+  inList(SORT_COLUMN.outcome, q.outcome);
   for (const [key, range] of Object.entries(q.ranges)) {
     if (!range) continue;
     const column = SORT_COLUMN[key as RecordSortKey];
@@ -154,20 +157,20 @@ export function recordsWhere(q: RecordsQuery): { sql: string; params: unknown[] 
     if (range.max !== null) { parts.push(`${column} <= ?`); params.push(range.max); }
   }
   if (q.search) {
-    const like = `%${q.search.replace(/[%_]/g, (m) => `\\${m}`)}%`;
+    const like = `%${q.search.replace(/[%_\\]/g, (m) => `\\${m}`)}%`;
     const asId = /^\d+$/.test(q.search) ? Number(q.search) : -1;
-    parts.push(`(r.id = ? OR r.alloyKey LIKE ? ESCAPE '\\' OR r.machine LIKE ? ESCAPE '\\' OR r.locationLabel LIKE ? ESCAPE '\\')`);
+    parts.push(`(r."id" = ? OR r."alloyKey" ILIKE ? ESCAPE '\\' OR r."machine" ILIKE ? ESCAPE '\\' OR r."locationLabel" ILIKE ? ESCAPE '\\')`);
     params.push(asId, like, like, like);
   }
   return { sql: parts.length ? `WHERE ${parts.join(" AND ")}` : "", params };
 }
 
-export function recordsOrderBy(q: RecordsQuery): string {
+export function recordsOrderBy(q: RecordsQuery, engine: DatabaseEngine): string {
   const dir = q.direction === "desc" ? "DESC" : "ASC";
   const column = SORT_COLUMN[q.sort];
   // SQLite's own NULL order (first ascending, last descending) keeps the column's index usable
-  // for the sort; id breaks ties so pages are stable.
-  return q.sort === "id" ? `ORDER BY r.id ${dir}` : `ORDER BY ${column} ${dir}, r.id ${dir}`;
+  // for the sort; PostgreSQL is told to follow it. id breaks ties so pages are stable.
+  return q.sort === "id" ? `ORDER BY r."id" ${dir}` : `ORDER BY ${column} ${dir}${sqliteNullOrder(engine, dir)}, r."id" ${dir}`;
 }
 
 const statementCache = new WeakMap<SqliteDatabase, Map<string, Statement<unknown[]>>>();
@@ -182,30 +185,36 @@ function prepared(db: SqliteDatabase, sql: string) {
 /**
  * The index (schema.prisma, last @@index of BuildRecord) that holds every filterable column.
  * Counting through it reads a narrow index instead of the wide rows, whatever the filter; left to
- * itself the planner sometimes picks a range index and visits every matching row instead.
+ * itself SQLite's planner sometimes picks a range index and visits every matching row instead.
  */
 export const RECORD_FILTER_INDEX =
   "BuildRecord_status_alloyKey_outcome_sourceId_laserPowerW_scanSpeedMmPerS_hatchSpacingUm_layerThicknessUm_spotDiameterUm_volumetricEnergyJMm3_relativeDensityPct_idx";
 
-export function listRecordsPage(q: RecordsQuery, db: SqliteDatabase = sqlite()): { rows: RecordTableRow[]; total: number } {
+/** `INDEXED BY` is SQLite's alone; PostgreSQL's planner gets no hint. */
+export function recordFilterIndexHint(engine: DatabaseEngine): string {
+  return engine === "sqlite" ? `INDEXED BY "${RECORD_FILTER_INDEX}"` : "";
+}
+
+/** One page of the records table and the number of records matching its filter. */
+export async function listRecordsPage(q: RecordsQuery, db: SqlExecutor): Promise<{ rows: RecordTableRow[]; total: number }> {
   const where = recordsWhere(q);
-  const total = (prepared(db, `SELECT COUNT(*) AS n FROM BuildRecord r INDEXED BY ${RECORD_FILTER_INDEX} ${where.sql}`).get(...where.params) as { n: number }).n;
-  const rows = prepared(
-    db,
-    `SELECT r.id, r.sourceId, r.alloyKey, r.laserPowerW, r.scanSpeedMmPerS, r.hatchSpacingUm, r.layerThicknessUm, r.spotDiameterUm,
-            r.volumetricEnergyJMm3, r.relativeDensityPct, r.outcome, r.status, r.qualityScore, r.machine, r.locationPage, r.locationLabel,
-            r.importRow, r.updatedAt
-     FROM BuildRecord r ${where.sql} ${recordsOrderBy(q)} LIMIT ? OFFSET ?`,
-  ).all(...where.params, q.pageSize, q.page * q.pageSize) as RecordTableRow[];
-  const labels = sourceLabels(db, [...new Set(rows.map((r) => r.sourceId))]);
+  const total = (await db.get<{ n: number }>(`SELECT COUNT(*) AS n FROM "BuildRecord" r ${recordFilterIndexHint(db.engine)} ${where.sql}`, where.params))!.n;
+  const rows = await db.all<RecordTableRow>(
+    `SELECT r."id", r."sourceId", r."alloyKey", r."laserPowerW", r."scanSpeedMmPerS", r."hatchSpacingUm", r."layerThicknessUm", r."spotDiameterUm",
+            r."volumetricEnergyJMm3", r."relativeDensityPct", r."outcome", r."status", r."qualityScore", r."machine", r."locationPage", r."locationLabel",
+            r."importRow", r."updatedAt"
+     FROM "BuildRecord" r ${where.sql} ${recordsOrderBy(q, db.engine)} LIMIT ? OFFSET ?`,
+    [...where.params, q.pageSize, q.page * q.pageSize],
+  );
+  const labels = await sourceLabels(db, [...new Set(rows.map((r) => r.sourceId))]);
   for (const r of rows) r.sourceLabel = labels.get(r.sourceId) ?? `source ${r.sourceId}`;
   return { rows, total };
 }
 
 /** Short "year · title" labels for the sources on one page. */
-function sourceLabels(db: SqliteDatabase, ids: number[]): Map<number, string> {
+async function sourceLabels(db: SqlExecutor, ids: number[]): Promise<Map<number, string>> {
   if (!ids.length) return new Map();
-  const rows = db.prepare(`SELECT id, year, title FROM Source WHERE id IN (${ids.map(() => "?").join(",")})`).all(...ids) as { id: number; year: number | null; title: string }[];
+  const rows = await db.all<{ id: number; year: number | null; title: string }>(`SELECT "id", "year", "title" FROM "Source" WHERE "id" IN (${ids.map(() => "?").join(",")})`, ids);
   return new Map(rows.map((s) => [s.id, `${s.year ?? "n.d."} · ${s.title.length > 60 ? `${s.title.slice(0, 59)}…` : s.title}`]));
 }
 
@@ -250,8 +259,11 @@ export interface CollectionStats {
   byOutcome: Record<string, number>;
 }
 
-export function collectionStats(db: SqliteDatabase = sqlite()): CollectionStats {
-  const rows = db.prepare(`SELECT alloyKey, status, COUNT(*) AS n FROM BuildRecord GROUP BY alloyKey, status`).all() as { alloyKey: string; status: string; n: number }[];
+/** Record counts by status, alloy and outcome, and the number of sources. Engine-neutral (sql.ts). */
+export async function collectionStats(db: SqlExecutor): Promise<CollectionStats> {
+  const rows = await db.all<{ alloyKey: string; status: string; n: number }>(
+    `SELECT "alloyKey" AS "alloyKey", "status", COUNT(*) AS n FROM "BuildRecord" GROUP BY "alloyKey", "status" ORDER BY "alloyKey", "status"`,
+  );
   const byStatus: Record<string, number> = {};
   const alloys = new Map<string, { alloyKey: string; count: number; byStatus: Record<string, number> }>();
   let records = 0;
@@ -263,11 +275,13 @@ export function collectionStats(db: SqliteDatabase = sqlite()): CollectionStats 
     a.byStatus[r.status] = (a.byStatus[r.status] ?? 0) + r.n;
     alloys.set(r.alloyKey, a);
   }
-  const byOutcome = Object.fromEntries((db.prepare(`SELECT outcome, COUNT(*) AS n FROM BuildRecord GROUP BY outcome`).all() as { outcome: string; n: number }[]).map((r) => [r.outcome, r.n]));
-  const sources = (db.prepare(`SELECT COUNT(*) AS n FROM Source`).get() as { n: number }).n;
+  const byOutcome = Object.fromEntries((await db.all<{ outcome: string; n: number }>(`SELECT "outcome", COUNT(*) AS n FROM "BuildRecord" GROUP BY "outcome"`)).map((r) => [r.outcome, r.n]));
+  const sources = (await db.get<{ n: number }>(`SELECT COUNT(*) AS n FROM "Source"`))!.n;
+  // stable sort: equal counts stay in alloy order
   return { records, sources, byStatus, byAlloy: [...alloys.values()].sort((a, b) => b.count - a.count), byOutcome };
 }
 
-export function distinctAlloys(db: SqliteDatabase = sqlite()): string[] {
-  return (db.prepare(`SELECT DISTINCT alloyKey FROM BuildRecord ORDER BY alloyKey`).all() as { alloyKey: string }[]).map((r) => r.alloyKey);
+/** The alloy keys present in the collection, sorted. Engine-neutral (sql.ts). */
+export async function distinctAlloys(db: SqlExecutor): Promise<string[]> {
+  return (await db.all<{ alloyKey: string }>(`SELECT DISTINCT "alloyKey" AS "alloyKey" FROM "BuildRecord" ORDER BY "alloyKey"`)).map((r) => r.alloyKey);
 }

@@ -30,6 +30,7 @@ import { loadPropertyOverrides } from "../db/check-inputs";
 import { sqlite } from "../db/connection";
 import { selectCoveragePoints, sourceTitles, type SelectionColumns } from "../db/coverage";
 import { distinctAlloys } from "../db/records";
+import { sql } from "../db/sql";
 import { coverageQuerySchema, type CoverageQuery, type RangeFilter } from "../schemas/coverage";
 import { currentCheckSettingsSync } from "./check-settings";
 import { DEFAULT_AMBIENT_TEMPERATURE_K } from "./meltpool";
@@ -395,7 +396,7 @@ export interface CoveragePage {
 /** What the coverage page needs on first render: the alloy choices and the report for the address bar's filters. */
 export async function getCoveragePage(input: unknown): Promise<Result<CoveragePage>> {
   return guard(async (): Promise<Result<CoveragePage>> => {
-    const alloys = distinctAlloys();
+    const alloys = await distinctAlloys(sql());
     const report = await getCoverage(input);
     if (report.ok) return ok({ alloys, report: report.data, queryError: null });
     if (report.error.code === "invalid_input") return ok({ alloys, report: null, queryError: report.error });

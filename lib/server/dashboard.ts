@@ -1,7 +1,7 @@
 import { listRecentAudit, type AuditEventRow } from "../db/audit";
-import { sqlite } from "../db/connection";
 import { openFlagCounts, type FlagCounts } from "../db/flags";
 import { collectionStats, type CollectionStats } from "../db/records";
+import { sql } from "../db/sql";
 import { guard, ok, type Result } from "./result";
 
 export interface Dashboard {
@@ -11,7 +11,13 @@ export interface Dashboard {
   flags: FlagCounts;
 }
 
-/** The state of the collection at a glance, for the home page. */
+/**
+ * The state of the collection at a glance, for the home page. Runs on either engine: the counts
+ * through sql.ts, read from one snapshot so they agree with each other; the recent events through Prisma.
+ */
 export async function getDashboard(): Promise<Result<Dashboard>> {
-  return guard(async () => ok({ stats: collectionStats(), recent: await listRecentAudit(12), flags: openFlagCounts(sqlite()) }));
+  return guard(async () => {
+    const { stats, flags } = await sql().transaction(async (tx) => ({ stats: await collectionStats(tx), flags: await openFlagCounts(tx) }), { readOnly: true });
+    return ok({ stats, recent: await listRecentAudit(12), flags });
+  });
 }

@@ -4,6 +4,7 @@
 import { z } from "zod";
 import { sqlite } from "../db/connection";
 import { listFlags as listFlagRows, openFlagCounts, type FlagCounts, type FlagListRow } from "../db/flags";
+import { sql } from "../db/sql";
 import { guard, invalid, ok, type Result } from "./result";
 
 /** A flag as pipelines see it: snake_case keys, the record's import file and row when it was imported. */
@@ -72,5 +73,5 @@ export async function listFlags(input: unknown): Promise<Result<FlagJson[]>> {
 
 /** Counts of open flags by rule, source and severity. */
 export async function getFlagCounts(): Promise<Result<FlagCounts>> {
-  return guard(async () => ok(openFlagCounts(sqlite())));
+  return guard(async () => ok(await openFlagCounts(sql())));
 }

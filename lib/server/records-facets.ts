@@ -1,4 +1,5 @@
 import { distinctAlloys } from "../db/records";
+import { sql } from "../db/sql";
 import { listSources as listSourceRows } from "../db/sources";
 import { listRecords, type RecordsPage } from "./records";
 import { guard, ok, type AppError, type Result } from "./result";
@@ -25,7 +26,7 @@ export function sourceOptionLabel(s: { id: number; year: number | null; title: s
 export async function getRecordFacets(): Promise<Result<RecordFacets>> {
   return guard(async () => {
     const sources = await listSourceRows();
-    return ok({ alloys: distinctAlloys(), sources: sources.map((s) => ({ id: s.id, label: sourceOptionLabel(s) })) });
+    return ok({ alloys: await distinctAlloys(sql()), sources: sources.map((s) => ({ id: s.id, label: sourceOptionLabel(s) })) });
   });
 }
 

@@ -3,6 +3,7 @@ import { appendAudit, listAuditFor, listBatchEventsCovering, type AuditEventRow 
 import { findOrCreateMaterial } from "../db/materials";
 import { getRecordDetail, getRecordTx, insertRecord, listRecordsPage, updateRecordIfVersion, type RecordDetail, type RecordRow, type RecordTableRow } from "../db/records";
 import { getSourceTx } from "../db/sources";
+import { sql } from "../db/sql";
 import { recordInputSchema, recordUpdateSchema } from "../schemas/record";
 import { recordsQuerySchema, type RecordsQuery } from "../schemas/records-query";
 import { z } from "zod";
@@ -131,12 +132,13 @@ export interface RecordsPage {
   query: RecordsQuery;
 }
 
-/** One page of the records table; filters, sort and paging validated by the shared schema. */
+/** One page of the records table; filters, sort and paging validated by the shared schema. Runs on either engine. */
 export async function listRecords(input: unknown): Promise<Result<RecordsPage>> {
   return guard(async () => {
     const parsed = recordsQuerySchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The table filters need attention.");
-    const { rows, total } = listRecordsPage(parsed.data);
+    // the total and the rows from one snapshot, so a page never disagrees with its count
+    const { rows, total } = await sql().transaction((tx) => listRecordsPage(parsed.data, tx), { readOnly: true });
     return ok({ rows, total, query: parsed.data });
   });
 }

@@ -1,5 +1,5 @@
 import { describe, expect, test } from "vitest";
-import { guard, sqliteCodeOf, storageFailure } from "./result";
+import { guard, postgresFailure, sqliteCodeOf, storageFailure } from "./result";
 
 const sqliteError = (code: string) => Object.assign(new Error("sqlite"), { code });
 // the shapes the Prisma driver adapter throws: a DriverAdapterError, and a known request error around one
@@ -35,5 +35,19 @@ describe("storage errors", () => {
 
   test("sqliteCodeOf prefers the wrapped SQLite code over Prisma's own", () => {
     expect(sqliteCodeOf(prismaError("SQLITE_FULL"))).toBe("SQLITE_FULL");
+  });
+});
+
+describe("PostgreSQL errors", () => {
+  const pgError = (code: string) => Object.assign(new Error(`pg ${code}`), { code });
+  test.each([["ECONNREFUSED"], ["28P01"], ["3D000"], ["40001"], ["40P01"]])("%s is unavailable, never internal", async (code) => {
+    const r = await guard(async () => {
+      throw pgError(code);
+    });
+    expect(!r.ok && r.error).toMatchObject({ code: "unavailable", details: { engine: "postgresql" } });
+  });
+
+  test("a constraint violation (23505) is not mistaken for an unavailable server", () => {
+    expect(postgresFailure(pgError("23505"))).toBeNull();
   });
 });

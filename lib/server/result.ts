@@ -2,6 +2,7 @@ import type { FieldErrors } from "../schemas/issues";
 import { fieldErrorsOf } from "../schemas/issues";
 import type { z } from "zod";
 import { EngineNotSupportedError } from "../db/location";
+import { isPostgresConnectionError } from "../db/postgres";
 
 export type AppErrorCode =
   | "invalid_input"
@@ -65,7 +66,7 @@ export async function guard<T>(body: () => Promise<Result<T>>): Promise<Result<T
   } catch (error) {
     if (error instanceof AppFailure) return { ok: false, error: error.error };
     if (error instanceof EngineNotSupportedError) return fail("unavailable", error.message, { engine: "postgresql" });
-    const storage = storageFailure(error);
+    const storage = storageFailure(error) ?? postgresFailure(error);
     if (storage) return storage;
     console.error("[meltledger] unexpected error", error);
     return fail("internal", "Something went wrong on the server; nothing was changed. The error was logged.");
@@ -95,5 +96,20 @@ export function storageFailure(error: unknown): { ok: false; error: AppError } |
   if (code.startsWith("SQLITE_READONLY") || code === "EROFS" || code === "EACCES" || code === "EPERM") return fail("unavailable", "The database is read-only (its file, folder or disk cannot be written); nothing was changed.", { storage: "read_only" });
   if (code.startsWith("SQLITE_CANTOPEN")) return fail("unavailable", "The database file cannot be opened for writing (SQLITE_CANTOPEN): its folder or disk may be read-only, or the file is missing; nothing was changed.", { storage: "cannot_open" });
   if (code.startsWith("SQLITE_IOERR")) return fail("unavailable", `The disk reported an error while reading or writing the database (${code}); nothing was changed. Check the disk.`, { storage: "io_error" });
+  return null;
+}
+
+/**
+ * A PostgreSQL server that cannot be reached (or refuses the login), or transactions that kept
+ * colliding after sql.ts's retries, as `unavailable`; null for anything else. The driver's message
+ * names host and port, never the password.
+ */
+export function postgresFailure(error: unknown): { ok: false; error: AppError } | null {
+  if (isPostgresConnectionError(error)) {
+    return fail("unavailable", `The PostgreSQL server cannot be reached or refused the connection (${(error as Error).message}); nothing was changed. Try again when it is back.`, { engine: "postgresql" });
+  }
+  const code = (error as { code?: unknown } | null)?.code;
+  // SQLSTATE 40001 serialization_failure, 40P01 deadlock_detected (PostgreSQL documentation, Appendix A)
+  if (code === "40001" || code === "40P01") return fail("unavailable", "The database is busy with conflicting changes; try again in a moment.", { engine: "postgresql" });
   return null;
 }

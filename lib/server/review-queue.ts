@@ -9,6 +9,7 @@ import { CHECKED_FIELDS } from "../domain/checks/fields";
 import { CANONICAL_UNIT } from "../domain/units";
 import { sqlite, type SqliteDatabase } from "../db/connection";
 import { openFlagCounts, openFlagsOfRecord, reviewQueuePage, type FlagCounts } from "../db/flags";
+import { sql } from "../db/sql";
 import { guard, invalid, ok, type Result } from "./result";
 
 export interface QueueValue {
@@ -174,6 +175,6 @@ export async function getReviewQueue(input: unknown): Promise<Result<ReviewQueue
       items.push({ record, flags, related });
     }
     const ruleTitles = Object.fromEntries(RULE_CATALOGUE.map((r) => [r.code, r.title]));
-    return ok({ items, total, page, pageSize, filter: { code, sourceId }, counts: openFlagCounts(db), ruleTitles });
+    return ok({ items, total, page, pageSize, filter: { code, sourceId }, counts: await openFlagCounts(sql()), ruleTitles });
   });
 }

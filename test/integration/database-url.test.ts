@@ -53,9 +53,17 @@ describe("a PostgreSQL DATABASE_URL", () => {
   });
 
   test("a command that needs SQLite exits with the message, without the password", () => {
-    const r = spawnSync(process.execPath, ["bin/meltledger.mjs", "records", "list", "--json"], { env: { ...process.env, DATABASE_URL: PG_URL }, encoding: "utf8" });
+    const r = spawnSync(process.execPath, ["bin/meltledger.mjs", "flags", "list", "--json"], { env: { ...process.env, DATABASE_URL: PG_URL }, encoding: "utf8" });
     expect(r.status).toBe(2);
     expect(JSON.parse(r.stderr).error).toMatchObject({ code: "unavailable", message: expect.stringMatching(/does not run on PostgreSQL yet/) });
+    expect(r.stderr).not.toContain("secret");
+  });
+
+  test("a command that runs on PostgreSQL, with the server unreachable, exits `unavailable` naming the server, without the password", () => {
+    // nothing listens on port 1
+    const r = spawnSync(process.execPath, ["bin/meltledger.mjs", "records", "list", "--json"], { env: { ...process.env, DATABASE_URL: PG_URL }, encoding: "utf8" });
+    expect(r.status).toBe(2);
+    expect(JSON.parse(r.stderr).error).toMatchObject({ code: "unavailable", message: expect.stringMatching(/PostgreSQL server cannot be reached.*127\.0\.0\.1:1/) });
     expect(r.stderr).not.toContain("secret");
   });
 });
