@@ -1,6 +1,7 @@
 import type { Composition } from "../domain/composition";
 import type { ExportRecord, ExportSource } from "../domain/export/types";
 import type { SqliteDatabase } from "./connection";
+import { parseAuthors } from "./sources";
 
 /** What narrows the records read for an export before the core applies every filter itself. */
 export interface ExportCandidateQuery {
@@ -108,16 +109,7 @@ export function countRecords(db: SqliteDatabase): number {
 /** Every source, for citations. */
 export function loadExportSources(db: SqliteDatabase): ExportSource[] {
   const rows = db.prepare(`SELECT id, kind, title, authors, year, venue, doi, url FROM Source ORDER BY id`).all() as (Omit<ExportSource, "authors"> & { authors: string })[];
-  return rows.map((s) => {
-    let authors: string[] = [];
-    try {
-      const parsed: unknown = JSON.parse(s.authors);
-      if (Array.isArray(parsed)) authors = parsed.map(String);
-    } catch {
-      authors = [];
-    }
-    return { ...s, authors };
-  });
+  return rows.map((s) => ({ ...s, authors: parseAuthors(s.authors) }));
 }
 
 export interface ExportRunRow {

@@ -31,14 +31,18 @@ export type SourceData = Omit<SourceRow, "id" | "version" | "createdAt" | "updat
 
 type DbSource = Prisma.SourceGetPayload<object>;
 
-function toRow(s: DbSource): SourceRow {
-  let authors: string[] = [];
+/** The authors column (a JSON array of names) as a list; anything unreadable is no authors. */
+export function parseAuthors(text: string): string[] {
   try {
-    const parsed: unknown = JSON.parse(s.authors);
-    if (Array.isArray(parsed)) authors = parsed.map(String);
+    const parsed: unknown = JSON.parse(text);
+    return Array.isArray(parsed) ? parsed.map(String) : [];
   } catch {
-    authors = [];
+    return [];
   }
+}
+
+function toRow(s: DbSource): SourceRow {
+  const authors = parseAuthors(s.authors);
   return {
     id: s.id, kind: s.kind, title: s.title, titleKey: s.titleKey, authors, year: s.year, venue: s.venue, doi: s.doi, url: s.url,
     notes: s.notes, densityMethod: s.densityMethod, outcomeEvidence: s.outcomeEvidence, machineStated: s.machineStated,
