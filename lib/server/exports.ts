@@ -151,14 +151,17 @@ export async function createExport(input: unknown, actor: Actor, options: Create
       mkdirSync(staging);
       // Each data file goes to disk (on the I/O threads) as soon as it is ready, while the next is encoded.
       const writes: Promise<void>[] = [];
+      const started = new Set<string>();
       const writeOut = (f: { name: string; bytes: Uint8Array }) => {
+        started.add(f.name);
         const w = writeFile(path.join(staging, f.name), f.bytes);
         w.catch(() => undefined); // awaited below
         writes.push(w);
       };
       try {
         written = await exportFilesWith(r.built, p.options, TOOL_VERSION, sha256Hex, (input, createdBy) => encoder.encode(input, createdBy), writeOut);
-        for (const f of written.files) if (f.name === "DATASHEET.md" || f.name === "manifest.json") writeOut(f);
+        // then the files made after the data files (the datasheet and the manifest)
+        for (const f of written.files) if (!started.has(f.name)) writeOut(f);
         await Promise.all(writes);
       } catch (error) {
         await Promise.allSettled(writes);
