@@ -89,9 +89,9 @@ describe("findDuplicatePairs", () => {
     );
   });
 
-  test("property: both block orderings (dense grid, counting sort; sparse grid, packed sort) equal brute force", () => {
+  test("property: both block orderings (dense grid, counting sort; sparse grid, comparison sort) equal brute force", () => {
     // Narrow (P, v) spans keep the grid small next to the block (counting sort); speeds spread over
-    // four decades make it far larger than the block (the packed-key sort).
+    // four decades make it far larger than the block (the comparison sort).
     const spread = fc.record({ ...recordFields, scanSpeedMmPerS: often(800, 801, 10, 12, 50_000, 99_000) });
     fc.assert(
       fc.property(fc.array(fc.oneof(recordArb, spread), { maxLength: 40 }), (rows) => {

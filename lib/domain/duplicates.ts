@@ -200,8 +200,8 @@ const EMPTY_I32 = new Int32Array(0);
 
 /**
  * Orders a block's members by (P, v) cell, ties by record index. A counting sort when the grid is
- * not much larger than the block (linear time, the usual case), a native typed-array sort of
- * packed (cell, position) keys otherwise. Everything it reads is the block's own.
+ * not much larger than the block (linear time, the usual case), a comparison sort otherwise.
+ * Everything it reads is the block's own.
  */
 function sortBlock(g: Block): void {
   const n = g.members.length;
@@ -219,17 +219,9 @@ function sortBlock(g: Block): void {
     g.starts = Int32Array.from(counts);
     for (let m = 0; m < n; m++) perm[counts[cellAt[m]!]!++] = m;
   } else {
-    const SHIFT = 2 ** 20;
-    if (n >= SHIFT || cells >= 2 ** 33) {
-      const sorted = Array.from({ length: n }, (_, m) => m).sort((a, b) => cellAt[a]! - cellAt[b]! || a - b);
-      sorted.forEach((m, k) => (perm[k] = m));
-    } else {
-      // Cell numbers below 2^33 and positions below 2^20: the packed key is an exact integer.
-      const packed = new Float64Array(n);
-      for (let m = 0; m < n; m++) packed[m] = cellAt[m]! * SHIFT + m;
-      packed.sort();
-      for (let k = 0; k < n; k++) perm[k] = packed[k]! % SHIFT;
-    }
+    // A sparse grid (values spread over decades): a comparison sort, ties by position.
+    for (let m = 0; m < n; m++) perm[m] = m;
+    perm.sort((a, b) => cellAt[a]! - cellAt[b]! || a - b);
   }
   const order = new Int32Array(n);
   const keys = new Float64Array(n);
