@@ -1,9 +1,10 @@
 import { completeCheckSettings, CHECK_SETTING_DEFS, defaultCheckSettings, type CheckSettings } from "../domain/check-settings";
 import type { SettingDef } from "../domain/setting-def";
 import { RULE_CATALOGUE, type RuleInfo } from "../domain/checks/index";
-import { appendAuditRaw } from "../db/audit-raw";
+import { appendAuditEvent } from "../db/audit-raw";
 import { sqlite, type SqliteDatabase } from "../db/connection";
-import { getSettingsVersion, insertSettingsVersion, latestSettingsVersion, listSettingsVersions } from "../db/settings";
+import { sql, type SqlDatabase, type SqlExecutor } from "../db/sql";
+import { getSettingsVersion, insertSettingsVersion, latestSettingsVersion, listSettingsVersions, type SettingsVersionRow } from "../db/settings";
 import { checkSettingsInputSchema } from "../schemas/check-settings";
 import { requireRole, type Actor } from "./actor";
 import { fail, guard, invalid, ok, type Result } from "./result";
@@ -20,25 +21,69 @@ export interface SettingsVersionInfo {
 
 export const isoNow = (now: Date = new Date()) => now.toISOString().replace("Z", "+00:00");
 
-/**
- * The newest settings version; the defaults are stored as the first version when none exists, so
- * every flag can name the version it was raised under.
- */
-export function currentCheckSettingsSync(db: SqliteDatabase = sqlite()): SettingsVersionInfo {
-  let row = latestSettingsVersion(db, CHECK_SETTINGS_KEY);
-  if (!row) {
-    db.transaction(() => {
-      if (!latestSettingsVersion(db, CHECK_SETTINGS_KEY)) insertSettingsVersion(db, CHECK_SETTINGS_KEY, defaultCheckSettings(), null, isoNow());
-    })();
-    row = latestSettingsVersion(db, CHECK_SETTINGS_KEY)!;
-  }
+function infoOf(row: SettingsVersionRow): SettingsVersionInfo {
   return { version: row.id, values: completeCheckSettings((row.value ?? {}) as Record<string, unknown>), createdAt: row.createdAt, createdByName: row.createdByName };
 }
 
+/**
+ * The newest settings version; the defaults are stored as the first version when none exists, so
+ * every flag can name the version it was raised under. `db` is the database or an open
+ * transaction (the defaults are then written in it).
+ */
+export async function currentCheckSettings(db: SqlExecutor = sql()): Promise<SettingsVersionInfo> {
+  const row = await latestSettingsVersion(db, CHECK_SETTINGS_KEY);
+  if (row) return infoOf(row);
+  const store = async (tx: SqlExecutor) => {
+    if (!(await latestSettingsVersion(tx, CHECK_SETTINGS_KEY))) await insertSettingsVersion(tx, CHECK_SETTINGS_KEY, defaultCheckSettings(), null, isoNow());
+    return (await latestSettingsVersion(tx, CHECK_SETTINGS_KEY))!;
+  };
+  return infoOf("transaction" in db ? await (db as SqlDatabase).transaction(store) : await store(db));
+}
+
 /** A stored version by id, or null when there is none of that id. */
+export async function checkSettingsVersion(id: number, db: SqlExecutor = sql()): Promise<SettingsVersionInfo | null> {
+  const row = await getSettingsVersion(db, CHECK_SETTINGS_KEY, id);
+  return row ? infoOf(row) : null;
+}
+
+/**
+ * currentCheckSettings on the raw SQLite connection, for the callers that still run synchronously
+ * on it (they move to currentCheckSettings with the rest of lib/server).
+ */
+export function currentCheckSettingsSync(db: SqliteDatabase = sqlite()): SettingsVersionInfo {
+  const latest = () =>
+    db.prepare(`SELECT s.id, s.key, s.value, s.createdById, u.name AS createdByName, s.createdAt FROM SettingsVersion s LEFT JOIN User u ON u.id = s.createdById WHERE s.key = ? ORDER BY s.id DESC LIMIT 1`).get(CHECK_SETTINGS_KEY) as
+      | { id: number; key: string; value: string; createdById: number | null; createdByName: string | null; createdAt: string }
+      | undefined;
+  let row = latest();
+  if (!row) {
+    db.transaction(() => {
+      if (!latest()) db.prepare(`INSERT INTO SettingsVersion (key, value, createdById, createdAt) VALUES (?, ?, NULL, ?)`).run(CHECK_SETTINGS_KEY, JSON.stringify(defaultCheckSettings()), isoNow());
+    })();
+    row = latest()!;
+  }
+  let value: unknown = {};
+  try {
+    value = JSON.parse(row.value);
+  } catch {
+    value = {};
+  }
+  return infoOf({ ...row, value });
+}
+
+/** checkSettingsVersion on the raw SQLite connection (see currentCheckSettingsSync). */
 export function checkSettingsVersionSync(id: number, db: SqliteDatabase = sqlite()): SettingsVersionInfo | null {
-  const row = getSettingsVersion(db, CHECK_SETTINGS_KEY, id);
-  return row ? { version: row.id, values: completeCheckSettings((row.value ?? {}) as Record<string, unknown>), createdAt: row.createdAt, createdByName: row.createdByName } : null;
+  const row = db.prepare(`SELECT s.id, s.key, s.value, s.createdById, u.name AS createdByName, s.createdAt FROM SettingsVersion s LEFT JOIN User u ON u.id = s.createdById WHERE s.key = ? AND s.id = ?`).get(CHECK_SETTINGS_KEY, id) as
+    | { id: number; key: string; value: string; createdById: number | null; createdByName: string | null; createdAt: string }
+    | undefined;
+  if (!row) return null;
+  let value: unknown = {};
+  try {
+    value = JSON.parse(row.value);
+  } catch {
+    value = {};
+  }
+  return infoOf({ ...row, value });
 }
 
 export interface CheckSettingsPage {
@@ -52,9 +97,9 @@ export interface CheckSettingsPage {
 /** The current settings with their definitions and the version history (what changed in each). */
 export async function getCheckSettings(): Promise<Result<CheckSettingsPage>> {
   return guard(async () => {
-    const db = sqlite();
-    const current = currentCheckSettingsSync(db);
-    const rows = listSettingsVersions(db, CHECK_SETTINGS_KEY, 50);
+    const db = sql();
+    const current = await currentCheckSettings(db);
+    const rows = await listSettingsVersions(db, CHECK_SETTINGS_KEY, 50);
     const versions = rows.map((r, i) => {
       const values = completeCheckSettings((r.value ?? {}) as Record<string, unknown>);
       const previous = rows[i + 1] ? completeCheckSettings((rows[i + 1]!.value ?? {}) as Record<string, unknown>) : defaultCheckSettings();
@@ -74,9 +119,8 @@ export async function saveCheckSettings(input: unknown, actor: Actor): Promise<R
     requireRole(actor, "admin");
     const parsed = checkSettingsInputSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "Some settings need attention; nothing was saved.");
-    const db = sqlite();
-    const result = db.transaction((): Result<{ version: number }> => {
-      const current = currentCheckSettingsSync(db);
+    return sql().transaction(async (tx): Promise<Result<{ version: number }>> => {
+      const current = await currentCheckSettings(tx);
       if (parsed.data.basedOnVersion !== null && parsed.data.basedOnVersion !== current.version) {
         return fail("conflict", `Settings version ${current.version} was saved after you opened version ${parsed.data.basedOnVersion}; nothing was saved. Reload to see it, then apply your changes again.`, { currentVersion: current.version });
       }
@@ -84,13 +128,12 @@ export async function saveCheckSettings(input: unknown, actor: Actor): Promise<R
       const changed = CHECK_SETTING_DEFS.filter((d) => values[d.key] !== current.values[d.key]).map((d) => d.key);
       if (!changed.length) return fail("invalid_input", "No setting differs from the current version; nothing was saved.");
       const at = isoNow();
-      const version = insertSettingsVersion(db, CHECK_SETTINGS_KEY, values, actor.id, at);
-      appendAuditRaw(db, {
+      const version = await insertSettingsVersion(tx, CHECK_SETTINGS_KEY, values, actor.id, at);
+      await appendAuditEvent(tx, {
         actorId: actor.id, actorName: actor.name, action: "update", entityType: "settings", entityId: `${CHECK_SETTINGS_KEY}:${version}`,
         before: Object.fromEntries(changed.map((k) => [k, current.values[k]])), after: Object.fromEntries(changed.map((k) => [k, values[k]])), reason: parsed.data.reason, at,
       });
       return ok({ version });
-    })();
-    return result;
+    });
   });
 }
