@@ -92,7 +92,7 @@ class CheckInput implements CheckInputRow {
   private enteredText: string;
   private parsed: CheckRecord["entered"] | null = null;
 
-  constructor(r: RecordRow, materials: Map<number, { basis: string; components: Components }>) {
+  constructor(r: RecordRow, materials: Materials) {
     const material = materials.get(r.materialId);
     this.id = r.id;
     this.sourceId = r.sourceId;
@@ -121,20 +121,73 @@ class CheckInput implements CheckInputRow {
     this.enteredAllReported = !this.enteredText.includes('"assumed"') && !this.enteredText.includes('"derived"');
   }
 
+  setMaterial(material: { basis: string; components: Components } | undefined) {
+    this.components = material?.components ?? NO_COMPONENTS;
+    this.compositionBasis = material?.basis ?? "wt";
+  }
+
   get entered(): CheckRecord["entered"] {
     return (this.parsed ??= parseEntered(this.enteredText));
   }
 }
 
-async function toInputs(db: SqlExecutor, rows: RecordRow[]): Promise<CheckInputRow[]> {
-  const materials = await materialComponents(db, rows.map((r) => r.materialId));
-  return rows.map((r) => new CheckInput(r, materials));
+type Materials = Map<number, { basis: string; components: Components }>;
+
+/** The materials of the given alloys (or all), with their components. */
+async function materialsOfAlloys(db: SqlExecutor, alloyKeys: readonly string[] | "all"): Promise<Materials> {
+  const rows =
+    alloyKeys === "all"
+      ? await db.all<{ id: number }>(`SELECT "id" FROM "Material" ORDER BY "id"`)
+      : await db.all<{ id: number }>(`SELECT "id" FROM "Material" WHERE "alloyKey" IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY "id"`, alloyKeys);
+  return materialComponents(db, rows.map((r) => r.id));
+}
+
+/** Records read per query by a full scan. */
+const SCAN_CHUNK = 4096;
+
+/**
+ * Turns rows into check inputs. A record whose material is not among `materials` (its alloy key
+ * and its material's disagree) gets it looked up at the end.
+ */
+class InputBuilder {
+  readonly inputs: CheckInput[] = [];
+  private readonly missing: [CheckInput, number][] = [];
+  constructor(private readonly materials: Materials) {}
+
+  add(r: RecordRow) {
+    const input = new CheckInput(r, this.materials);
+    if (!this.materials.has(r.materialId)) this.missing.push([input, r.materialId]);
+    this.inputs.push(input);
+  }
+
+  async done(db: SqlExecutor): Promise<CheckInputRow[]> {
+    if (this.missing.length) {
+      const more = await materialComponents(db, this.missing.map(([, id]) => id));
+      for (const [input, id] of this.missing) input.setMaterial(more.get(id));
+    }
+    return this.inputs;
+  }
+}
+
+/**
+ * Every active record (those of `keep`'s alloys only, when given), in id order, read a chunk at a
+ * time: the driver's row objects then die young instead of all 100k of them living through a
+ * full garbage collection before they are copied into check inputs.
+ */
+async function scanInputs(db: SqlExecutor, materials: Materials, keep: ((alloyKey: string) => boolean) | null): Promise<CheckInputRow[]> {
+  const builder = new InputBuilder(materials);
+  for (let after = 0; ; ) {
+    const rows = await db.all<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "id" > ? ORDER BY "id" LIMIT ?`, [after, SCAN_CHUNK]);
+    for (const r of rows) if (!keep || keep(r.alloyKey)) builder.add(r);
+    if (rows.length < SCAN_CHUNK) break;
+    after = rows[rows.length - 1]!.id;
+  }
+  return builder.done(db);
 }
 
 /** Every active record, or the active records of the given alloys, in id order. */
 export async function loadCheckRecords(db: SqlExecutor, alloyKeys: readonly string[] | "all"): Promise<CheckInputRow[]> {
-  const everything = () => db.all<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} ORDER BY "id"`);
-  if (alloyKeys === "all") return toInputs(db, await everything());
+  if (alloyKeys === "all") return scanInputs(db, await materialsOfAlloys(db, "all"), null);
   if (!alloyKeys.length) return [];
   // When the alloys asked for hold most records (a large import, say), one scan of the table in id
   // order beats index lookups followed by a sort; the count per alloy comes from an index.
@@ -146,11 +199,11 @@ export async function loadCheckRecords(db: SqlExecutor, alloyKeys: readonly stri
     total += n;
     if (wanted.has(alloyKey)) inWanted += n;
   }
-  if (inWanted >= 0.6 * total) {
-    const rows = await everything();
-    return toInputs(db, inWanted === total ? rows : rows.filter((r) => wanted.has(r.alloyKey)));
-  }
-  return toInputs(db, await db.all<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "alloyKey" IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY "id"`, alloyKeys));
+  const materials = await materialsOfAlloys(db, alloyKeys);
+  if (inWanted >= 0.6 * total) return scanInputs(db, materials, inWanted === total ? null : (alloy) => wanted.has(alloy));
+  const builder = new InputBuilder(materials);
+  for (const r of await db.all<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "alloyKey" IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY "id"`, alloyKeys)) builder.add(r);
+  return builder.done(db);
 }
 
 type RecordKey = { id: number; alloyKey: string; status: string };
