@@ -1,4 +1,6 @@
-import { sqliteNullOrder, type SqlExecutor, type SqlValue } from "./sql";
+import type { AuditInput } from "./audit";
+import { appendAuditEvent } from "./audit-raw";
+import { sqliteNullOrder, type SqlDatabase, type SqlExecutor, type SqlValue } from "./sql";
 
 export type FlagState = "open" | "resolved" | "waived";
 
@@ -224,6 +226,47 @@ export async function setFlagStateIfVersion(db: SqlExecutor, id: number, version
     s.state, s.resolution, s.reason, s.actorId, s.at, id, version,
   ]);
   return r.changes === 1;
+}
+
+/**
+ * A reviewer's change of state with its audit event, atomically, only if the flag is still open at
+ * `version`; false means someone else acted first (and nothing was written). For the actions that
+ * change nothing else (a waiver), so that many reviewers acting at once stay fast:
+ * - PostgreSQL: one statement, the UPDATE in a WITH feeding the audit INSERT. It is its own
+ *   transaction, at READ COMMITTED: a concurrent writer's committed row is re-checked against the
+ *   version condition (so the second of two reviewers changes nothing, and an action lands once),
+ *   and with no SERIALIZABLE snapshot there is no serialization failure to retry.
+ * - SQLite has no UPDATE inside WITH: the two statements in one (IMMEDIATE) transaction.
+ */
+export async function setFlagStateAudited(
+  db: SqlDatabase,
+  id: number,
+  version: number,
+  s: { state: FlagState; resolution: string; reason: string | null; actorId: number | null; at: string },
+  audit: AuditInput,
+): Promise<boolean> {
+  const update = `UPDATE "Flag" SET "state" = ?, "resolution" = ?, "reason" = ?, "resolvedById" = ?, "resolvedAt" = ?, "version" = "version" + 1 WHERE "id" = ? AND "version" = ? AND "state" = 'open'`;
+  const updateParams: SqlValue[] = [s.state, s.resolution, s.reason, s.actorId, s.at, id, version];
+  const event = { ...audit, at: s.at };
+  if (db.engine === "sqlite") {
+    return db.transaction(async (tx) => {
+      if ((await tx.run(update, updateParams)).changes !== 1) return false;
+      await appendAuditEvent(tx, event);
+      return true;
+    });
+  }
+  // the same columns and values as appendAuditEvent; typed, since a SELECT list gives a parameter no column type
+  const r = await db.get<{ id: number }>(
+    `WITH changed AS (${update} RETURNING "id")
+     INSERT INTO "AuditEvent" ("actorId", "actorName", "action", "entityType", "entityId", "before", "after", "reason", "at")
+     SELECT CAST(? AS INTEGER), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TIMESTAMP(3)) FROM changed
+     RETURNING "id"`,
+    [
+      ...updateParams, event.actorId, event.actorName, event.action, event.entityType, String(event.entityId),
+      event.before === undefined ? null : JSON.stringify(event.before), event.after === undefined ? null : JSON.stringify(event.after), event.reason ?? null, event.at,
+    ],
+  );
+  return r !== undefined;
 }
 
 export interface FlagFilter {

@@ -6,7 +6,8 @@
  * reviewer saw is checked (a second reviewer gets a conflict naming who acted, never a lost
  * update), the change and its audit event are written together, and the checks of the records
  * concerned run inside it (runChecksIn). The bodies do database work only, so PostgreSQL may run
- * them again after a serialization failure.
+ * them again after a serialization failure. A waiver, which changes the flag alone, is one atomic
+ * write of the flag and its audit event (setFlagStateAudited) after one read.
  * Bad input (an unknown flag, a stale version, a missing reason) comes back as an error and
  * changes nothing.
  */
@@ -14,7 +15,7 @@ import { DUPLICATE_CODES } from "../domain/checks/index";
 import { checkHardLimit, parseQuantity } from "../domain/units";
 import { energyDensities } from "../domain/energy-density";
 import { appendAuditEvent } from "../db/audit-raw";
-import { getFlag, getFlagForAction, openFlagsOfRecord, recordsWithOpenFlagsRelatedTo, setFlagStateIfVersion, type FlagRow } from "../db/flags";
+import { getFlag, getFlagForAction, openFlagsOfRecord, recordsWithOpenFlagsRelatedTo, setFlagStateAudited, setFlagStateIfVersion, type FlagRow } from "../db/flags";
 import { getPairDecision, insertPairDecision } from "../db/pairs";
 import { getReviewRecord, getSourceOverride, recordIdsOfSource, setSourceQualityOverrideIfVersion, updateRecordIfVersion, type ReviewRecordRow } from "../db/reviews";
 import { sql, type SqlExecutor, type SqlValue } from "../db/sql";
@@ -129,31 +130,54 @@ function suggestedFixOf(flag: FlagRow): { field: RecordQuantityField; value: str
 
 type ParsedAction = ReturnType<typeof flagActionSchema.parse>;
 
+/** Refuses an action on a flag whose record is gone, rejected or merged. */
+function requireActionable(flag: ActionFlag): void {
+  if (flag.recordId === null) failure("invalid_input", `Flag ${flag.id} belongs to no record.`);
+  if (flag.recordStatus === null) failure("not_found", `Record ${flag.recordId} of flag ${flag.id} does not exist.`);
+  if (flag.recordStatus === "rejected" || flag.recordStatus === "merged") failure("conflict", `Record ${flag.recordId} is ${flag.recordStatus}; its flags can no longer be acted on.`);
+}
+
 /**
- * A waive touches the flag alone: read it (with its record's status and version), write it, audit
- * it — three statements, no re-check (waiving changes no record), so a queue of reviewers waiving
- * at once keeps the transactions short.
+ * A waiver changes the flag alone (no record, no re-check): one read to check what the reviewer
+ * saw, then the change and its audit event in one atomic write (setFlagStateAudited), which lands
+ * only if the flag is still open at that version. Kept this lean because reviewers waive in bulk
+ * and many at once.
  */
-async function waive(db: SqlExecutor, flag: ActionFlag, reason: string | null, actor: Actor, at: string): Promise<FlagActionResult> {
-  if (!(await setFlagStateIfVersion(db, flag.id, flag.version, { state: "waived", resolution: "waive", reason, actorId: actor.id, at }))) lostRace(flag.id);
-  await audit(db, actor, "waive", "flag", flag.id, { state: "open", ruleCode: flag.ruleCode, recordId: flag.recordId }, { state: "waived" }, reason, at);
+async function waiveFlag(input: ParsedAction, actor: Actor): Promise<FlagActionResult> {
+  const db = sql();
+  const flag = await loadFlagForAction(db, input.flagId, input.version);
+  requireActionable(flag);
+  const at = isoNow();
+  const done = await setFlagStateAudited(db, flag.id, flag.version, { state: "waived", resolution: "waive", reason: input.reason, actorId: actor.id, at }, {
+    actorId: actor.id, actorName: actor.name, action: "waive", entityType: "flag", entityId: flag.id,
+    before: { state: "open", ruleCode: flag.ruleCode, recordId: flag.recordId }, after: { state: "waived" }, reason: input.reason,
+  });
+  if (!done) {
+    // someone acted between the read and the write: say who and what, as for a stale version
+    await loadFlagForAction(db, flag.id, flag.version);
+    lostRace(flag.id);
+  }
   return {
     flagId: flag.id, action: "waive", state: "waived", resolution: "waive", recordId: flag.recordId, recordStatus: flag.recordStatus, recordVersion: flag.recordVersion, resolved: true, checks: null,
   };
 }
 
+/** One action on one flag; a waiver goes its own lean way, every other action is one transaction. */
+function actOnFlag(input: ParsedAction, actor: Actor): Promise<FlagActionResult> {
+  return input.action === "waive" ? waiveFlag(input, actor) : sql().transaction((tx) => act(tx, input, actor));
+}
+
 async function act(db: SqlExecutor, input: ParsedAction, actor: Actor): Promise<FlagActionResult> {
   const at = isoNow();
   const flag = await loadFlagForAction(db, input.flagId, input.version);
-  if (flag.recordId === null) failure("invalid_input", `Flag ${flag.id} belongs to no record.`);
-  if (flag.recordStatus === null) failure("not_found", `Record ${flag.recordId} of flag ${flag.id} does not exist.`);
-  if (flag.recordStatus === "rejected" || flag.recordStatus === "merged") failure("conflict", `Record ${flag.recordId} is ${flag.recordStatus}; its flags can no longer be acted on.`);
+  requireActionable(flag);
   const reason = input.reason;
-  if (input.action === "waive") return waive(db, flag, reason, actor, at);
   const rec = await recordOf(db, flag);
   let checks: CheckRunSummary | null = null;
   let resolved = true;
   switch (input.action) {
+    case "waive":
+      throw new RangeError("act: a waiver goes through waiveFlag");
     case "fix": {
       if (input.recordVersion !== null && input.recordVersion !== rec.version) {
         failure("conflict", `Record ${rec.id} was saved after you loaded it (you saw version ${input.recordVersion}, it is now version ${rec.version}). Nothing was changed; reload to see it.`, { currentVersion: rec.version });
@@ -224,7 +248,7 @@ export async function resolveFlag(input: unknown, actor: Actor): Promise<Result<
     requireRole(actor, "reviewer");
     const parsed = flagActionSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The action needs attention; nothing was changed.");
-    return ok(await sql().transaction((tx) => act(tx, parsed.data, actor)));
+    return ok(await actOnFlag(parsed.data, actor));
   });
 }
 
@@ -244,11 +268,10 @@ export async function resolveFlagsBulk(input: unknown, actor: Actor): Promise<Re
     requireRole(actor, "reviewer");
     const parsed = bulkFlagActionSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The bulk action needs attention; nothing was changed.");
-    const db = sql();
     const items: BulkItemResult[] = [];
     for (const item of parsed.data.items) {
       try {
-        const result = await db.transaction((tx) => act(tx, { flagId: item.flagId, version: item.version, recordVersion: null, action: parsed.data.action, reason: parsed.data.reason, fix: null }, actor));
+        const result = await actOnFlag({ flagId: item.flagId, version: item.version, recordVersion: null, action: parsed.data.action, reason: parsed.data.reason, fix: null }, actor);
         items.push({ flagId: item.flagId, ok: true, result });
       } catch (error) {
         if (error instanceof AppFailure) items.push({ flagId: item.flagId, ok: false, error: { code: error.error.code, message: error.error.message } });

@@ -158,6 +158,8 @@ describeEachEngine("checks and review", (current) => {
         const mine = results.filter((_, i) => attempts[i]!.flag.id === f.id);
         expect(mine.filter((r) => r.ok)).toHaveLength(1);
         expect(mine.filter((r) => !r.ok).map((r) => !r.ok && r.error.code)).toEqual(["conflict", "conflict"]);
+        // whether they read before or after the first one wrote, they are told who acted
+        for (const r of mine) if (!r.ok) expect(r.error.message).toMatch(new RegExp(`waived \\(waive\\) at .* by ${actor.name}`));
         const events = await listAuditFor("flag", f.id);
         expect(events.map((e) => e.action)).toEqual(["waive"]);
         const [after] = await flagsOf(f.record_id!, "waived");
