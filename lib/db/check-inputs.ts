@@ -12,7 +12,7 @@ export interface CheckInputRow extends CheckRecord {
 }
 
 
-/** The columns read (CheckInput's constructor reads them by name). */
+/** The columns read, as arrays of values (CheckInput's constructor reads them by position). */
 const COLUMNS = `"id", "sourceId", "materialId", "alloyKey", "laserPowerW", "scanSpeedMmPerS", "hatchSpacingUm", "layerThicknessUm", "spotDiameterUm", "preheatC",
   "powderD10Um", "powderD50Um", "powderD90Um", "relativeDensityPct", "volumetricEnergyJMm3", "outcome", "machine", "atmosphere", "spotDefinition", "enteredValues",
   "status", "version", "qualityScore"`;
@@ -52,13 +52,11 @@ function parseEntered(text: string): CheckRecord["entered"] {
 
 const NO_COMPONENTS: Components = Object.freeze([]);
 
-/** A row of COLUMNS as the driver gives it. */
-interface RecordRow {
-  id: number; sourceId: number; materialId: number; alloyKey: string; laserPowerW: number | null; scanSpeedMmPerS: number | null; hatchSpacingUm: number | null;
-  layerThicknessUm: number | null; spotDiameterUm: number | null; preheatC: number | null; powderD10Um: number | null; powderD50Um: number | null; powderD90Um: number | null;
-  relativeDensityPct: number | null; volumetricEnergyJMm3: number | null; outcome: string; machine: string | null; atmosphere: string | null; spotDefinition: string | null;
-  enteredValues: string; status: string; version: number; qualityScore: number | null;
-}
+/** A row of COLUMNS as an array of values, in COLUMNS' order: no object per row from the driver. */
+type RecordRow = unknown[];
+const ID = 0;
+const MATERIAL_ID = 2;
+const ALLOY_KEY = 3;
 
 /**
  * A loaded record. What was entered is parsed on first use only: most checks never need it, and
@@ -93,31 +91,31 @@ class CheckInput implements CheckInputRow {
   private parsed: CheckRecord["entered"] | null = null;
 
   constructor(r: RecordRow, materials: Materials) {
-    const material = materials.get(r.materialId);
-    this.id = r.id;
-    this.sourceId = r.sourceId;
-    this.alloyKey = r.alloyKey;
+    const material = materials.get(r[MATERIAL_ID] as number);
+    this.id = r[ID] as number;
+    this.sourceId = r[1] as number;
+    this.alloyKey = r[ALLOY_KEY] as string;
     this.components = material?.components ?? NO_COMPONENTS;
     this.compositionBasis = material?.basis ?? "wt";
-    this.laserPowerW = r.laserPowerW;
-    this.scanSpeedMmPerS = r.scanSpeedMmPerS;
-    this.hatchSpacingUm = r.hatchSpacingUm;
-    this.layerThicknessUm = r.layerThicknessUm;
-    this.spotDiameterUm = r.spotDiameterUm;
-    this.preheatC = r.preheatC;
-    this.powderD10Um = r.powderD10Um;
-    this.powderD50Um = r.powderD50Um;
-    this.powderD90Um = r.powderD90Um;
-    this.relativeDensityPct = r.relativeDensityPct;
-    this.volumetricEnergyJMm3 = r.volumetricEnergyJMm3;
-    this.outcome = r.outcome;
-    this.machine = r.machine;
-    this.atmosphere = r.atmosphere;
-    this.spotDefinition = r.spotDefinition;
-    this.enteredText = r.enteredValues;
-    this.status = r.status;
-    this.version = r.version;
-    this.qualityScore = r.qualityScore;
+    this.laserPowerW = r[4] as number | null;
+    this.scanSpeedMmPerS = r[5] as number | null;
+    this.hatchSpacingUm = r[6] as number | null;
+    this.layerThicknessUm = r[7] as number | null;
+    this.spotDiameterUm = r[8] as number | null;
+    this.preheatC = r[9] as number | null;
+    this.powderD10Um = r[10] as number | null;
+    this.powderD50Um = r[11] as number | null;
+    this.powderD90Um = r[12] as number | null;
+    this.relativeDensityPct = r[13] as number | null;
+    this.volumetricEnergyJMm3 = r[14] as number | null;
+    this.outcome = r[15] as string;
+    this.machine = r[16] as string | null;
+    this.atmosphere = r[17] as string | null;
+    this.spotDefinition = r[18] as string | null;
+    this.enteredText = r[19] as string;
+    this.status = r[20] as string;
+    this.version = r[21] as number;
+    this.qualityScore = r[22] as number | null;
     this.enteredAllReported = !this.enteredText.includes('"assumed"') && !this.enteredText.includes('"derived"');
   }
 
@@ -156,7 +154,8 @@ class InputBuilder {
 
   add(r: RecordRow) {
     const input = new CheckInput(r, this.materials);
-    if (!this.materials.has(r.materialId)) this.missing.push([input, r.materialId]);
+    const materialId = r[MATERIAL_ID] as number;
+    if (!this.materials.has(materialId)) this.missing.push([input, materialId]);
     this.inputs.push(input);
   }
 
@@ -177,10 +176,10 @@ class InputBuilder {
 async function scanInputs(db: SqlExecutor, materials: Materials, keep: ((alloyKey: string) => boolean) | null): Promise<CheckInputRow[]> {
   const builder = new InputBuilder(materials);
   for (let after = 0; ; ) {
-    const rows = await db.all<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "id" > ? ORDER BY "id" LIMIT ?`, [after, SCAN_CHUNK]);
-    for (const r of rows) if (!keep || keep(r.alloyKey)) builder.add(r);
+    const rows = await db.values<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "id" > ? ORDER BY "id" LIMIT ?`, [after, SCAN_CHUNK]);
+    for (const r of rows) if (!keep || keep(r[ALLOY_KEY] as string)) builder.add(r);
     if (rows.length < SCAN_CHUNK) break;
-    after = rows[rows.length - 1]!.id;
+    after = rows[rows.length - 1]![ID] as number;
   }
   return builder.done(db);
 }
@@ -202,7 +201,7 @@ export async function loadCheckRecords(db: SqlExecutor, alloyKeys: readonly stri
   const materials = await materialsOfAlloys(db, alloyKeys);
   if (inWanted >= 0.6 * total) return scanInputs(db, materials, inWanted === total ? null : (alloy) => wanted.has(alloy));
   const builder = new InputBuilder(materials);
-  for (const r of await db.all<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "alloyKey" IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY "id"`, alloyKeys)) builder.add(r);
+  for (const r of await db.values<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "alloyKey" IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY "id"`, alloyKeys)) builder.add(r);
   return builder.done(db);
 }
 

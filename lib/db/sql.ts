@@ -32,6 +32,11 @@ export interface SqlRunResult {
 export interface SqlExecutor {
   readonly engine: DatabaseEngine;
   all<T>(sql: string, params?: readonly SqlValue[]): Promise<T[]>;
+  /**
+   * The rows as arrays of values in the SELECT list's order (converted as `all` converts them):
+   * no object per row, for reads of many rows where that cost shows (the checks' full scan).
+   */
+  values<T extends unknown[]>(sql: string, params?: readonly SqlValue[]): Promise<T[]>;
   get<T>(sql: string, params?: readonly SqlValue[]): Promise<T | undefined>;
   run(sql: string, params?: readonly SqlValue[]): Promise<SqlRunResult>;
 }
@@ -136,10 +141,17 @@ export function canonicalTimestamp(value: unknown): string | null {
 // SQLite: the raw connection, behind a lock so an open async transaction has it to itself
 
 type Conversion = { name: string; kind: "boolean" | "timestamp" };
+type IndexConversion = { index: number; kind: "boolean" | "timestamp" };
 interface SqliteStatement {
   stmt: Statement<unknown[]>;
   /** Columns whose declared type needs converting to the shared form; null when none does. */
   conversions: Conversion[] | null;
+  /** The same by position, for rows read as arrays. */
+  indexConversions: IndexConversion[] | null;
+}
+
+function convertValue(kind: "boolean" | "timestamp", v: unknown): unknown {
+  return kind === "boolean" ? v === 1 || v === 1n || v === true : canonicalTimestamp(v);
 }
 
 const STATEMENT_CACHE_LIMIT = 500;
@@ -161,6 +173,8 @@ class SqliteSql implements SqlDatabase {
   readonly engine = "sqlite" as const;
   private readonly statements = new Map<string, SqliteStatement>();
   private readonly readStatements = new Map<string, SqliteStatement>();
+  private readonly rawStatements = new Map<string, SqliteStatement>();
+  private readonly readRawStatements = new Map<string, SqliteStatement>();
   /** Settles when the open transaction ends; null when none is open. */
   private busy: Promise<void> | null = null;
   /** The same for read-only transactions, which run on a connection of their own. */
@@ -181,6 +195,7 @@ class SqliteSql implements SqlDatabase {
     if (this.db.memory) return this.db; // an in-memory database has no second connection
     this.readDb = openSqlite(this.db.name, { readonly: true });
     this.readStatements.clear();
+    this.readRawStatements.clear();
     return this.readDb;
   }
 
@@ -190,21 +205,27 @@ class SqliteSql implements SqlDatabase {
     this.readDb = null;
   }
 
-  private prepare(sql: string, on: SqliteDatabase = this.db): SqliteStatement {
-    const cache = on === this.db ? this.statements : this.readStatements;
+  private prepare(sql: string, on: SqliteDatabase = this.db, raw = false): SqliteStatement {
+    const cache = on === this.db ? (raw ? this.rawStatements : this.statements) : raw ? this.readRawStatements : this.readStatements;
     let s = cache.get(sql);
     if (s) return s;
     const stmt = on.prepare(translateSql(sql, "sqlite"));
     let conversions: Conversion[] | null = null;
+    let indexConversions: IndexConversion[] | null = null;
     if (stmt.reader) {
-      for (const col of stmt.columns()) {
+      stmt.columns().forEach((col, index) => {
         const type = col.type?.toUpperCase();
         const kind = type === "BOOLEAN" ? "boolean" : type === "DATETIME" ? "timestamp" : null;
-        if (kind) (conversions ??= []).push({ name: col.name, kind });
-      }
+        if (kind) {
+          (conversions ??= []).push({ name: col.name, kind });
+          (indexConversions ??= []).push({ index, kind });
+        }
+      });
+      // raw mode is a setting of the statement: such statements are cached apart
+      if (raw) stmt.raw(true);
     }
     if (cache.size >= STATEMENT_CACHE_LIMIT) cache.clear();
-    s = { stmt, conversions };
+    s = { stmt, conversions, indexConversions };
     cache.set(sql, s);
     return s;
   }
@@ -215,9 +236,25 @@ class SqliteSql implements SqlDatabase {
     for (const c of s.conversions) {
       const v = r[c.name];
       if (v === null || v === undefined) continue;
-      r[c.name] = c.kind === "boolean" ? v === 1 || v === 1n || v === true : canonicalTimestamp(v);
+      r[c.name] = convertValue(c.kind, v);
     }
     return row as T;
+  }
+
+  valuesNow<T extends unknown[]>(sql: string, params: readonly SqlValue[], readOnly = false, on: SqliteDatabase = this.db): T[] {
+    const s = this.prepare(sql, on, true);
+    if (!s.stmt.reader) throw new SqlUsageError(`values() needs a statement that returns rows: ${sql}`);
+    this.refuseWrite(s, sql, readOnly);
+    const rows = s.stmt.all(...sqliteParams(params)) as unknown[][];
+    if (s.indexConversions) {
+      for (const row of rows) {
+        for (const c of s.indexConversions) {
+          const v = row[c.index];
+          if (v !== null && v !== undefined) row[c.index] = convertValue(c.kind, v);
+        }
+      }
+    }
+    return rows as T[];
   }
 
   allNow<T>(sql: string, params: readonly SqlValue[], readOnly = false, on: SqliteDatabase = this.db): T[] {
@@ -269,6 +306,10 @@ class SqliteSql implements SqlDatabase {
     return this.whenFree(() => this.allNow<T>(sql, params));
   }
 
+  values<T extends unknown[]>(sql: string, params: readonly SqlValue[] = []): Promise<T[]> {
+    return this.whenFree(() => this.valuesNow<T>(sql, params));
+  }
+
   get<T>(sql: string, params: readonly SqlValue[] = []): Promise<T | undefined> {
     return this.whenFree(() => this.getNow<T>(sql, params));
   }
@@ -294,6 +335,7 @@ class SqliteSql implements SqlDatabase {
       const tx: SqlExecutor = {
         engine: "sqlite",
         all: async <R>(sql: string, params: readonly SqlValue[] = []) => (check(), this.allNow<R>(sql, params, readOnly, on)),
+        values: async <R extends unknown[]>(sql: string, params: readonly SqlValue[] = []) => (check(), this.valuesNow<R>(sql, params, readOnly, on)),
         get: async <R>(sql: string, params: readonly SqlValue[] = []) => (check(), this.getNow<R>(sql, params, readOnly, on)),
         run: async (sql: string, params: readonly SqlValue[] = []) => (check(), this.runNow(sql, params, readOnly, on)),
       };
@@ -350,6 +392,10 @@ class PostgresExecutor implements SqlExecutor {
     return (await this.on.query(translateSql(sql, "postgresql"), pgParams(params))).rows as T[];
   }
 
+  async values<T extends unknown[]>(sql: string, params: readonly SqlValue[] = []): Promise<T[]> {
+    return (await this.on.query({ text: translateSql(sql, "postgresql"), values: pgParams(params), rowMode: "array" })).rows as T[];
+  }
+
   async get<T>(sql: string, params: readonly SqlValue[] = []): Promise<T | undefined> {
     return (await this.all<T>(sql, params))[0];
   }
@@ -371,6 +417,11 @@ class PostgresSql extends PostgresExecutor implements SqlDatabase {
   override all<T>(sql: string, params?: readonly SqlValue[]): Promise<T[]> {
     this.refuseInside();
     return super.all<T>(sql, params);
+  }
+
+  override values<T extends unknown[]>(sql: string, params?: readonly SqlValue[]): Promise<T[]> {
+    this.refuseInside();
+    return super.values<T>(sql, params);
   }
 
   override get<T>(sql: string, params?: readonly SqlValue[]): Promise<T | undefined> {
@@ -401,6 +452,7 @@ class PostgresSql extends PostgresExecutor implements SqlDatabase {
       const tx: SqlExecutor = {
         engine: "postgresql",
         all: (sql, params) => (check(), inner.all(sql, params)),
+        values: (sql, params) => (check(), inner.values(sql, params)),
         get: (sql, params) => (check(), inner.get(sql, params)),
         run: (sql, params) => (check(), inner.run(sql, params)),
       };

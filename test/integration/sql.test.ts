@@ -55,6 +55,19 @@ describeEachEngine("engine-neutral SQL", (current) => {
     expect(new Date(raw instanceof Date ? raw.getTime() - raw.getTimezoneOffset() * 60_000 : String(raw)).toISOString()).toBe(NOW);
   });
 
+  test("rows as arrays hold the same values, converted alike, in the SELECT list's order, also inside a transaction", async () => {
+    const db = sql();
+    const query = `SELECT "title", COUNT(*) OVER () AS n, "year", "machineStated", "updatedAt", "venue" FROM "Source" ORDER BY "id"`;
+    const objects = await db.all<Record<string, unknown>>(query);
+    const arrays = await db.values<unknown[]>(query);
+    expect(arrays).toEqual(objects.map((o) => [o.title, o.n, o.year, o.machineStated, o.updatedAt, o.venue]));
+    expect(arrays[0]).toEqual(["Invented study of melt tracks", 2, 2021, true, NOW, null]);
+    // the same statement text read as objects again: the array form did not stick to it
+    expect(await db.all(query)).toEqual(objects);
+    expect(await db.transaction((tx) => tx.values<unknown[]>(query, []), { readOnly: true })).toEqual(arrays);
+    expect(await db.transaction((tx) => tx.values<unknown[]>(query))).toEqual(arrays);
+  });
+
   test("COUNT is a number, a missing row is undefined, a boolean parameter matches a BOOLEAN column", async () => {
     const db = sql();
     expect(await db.get<{ n: number }>(`SELECT COUNT(*) AS n FROM "Source" WHERE "machineStated" = ?`, [true])).toEqual({ n: 2 });
