@@ -76,9 +76,10 @@ export interface SourceListRow extends SourceRow {
   recordCount: number;
 }
 
+/** Every source, newest year first; sources without a year last (on both engines), then by id. */
 export async function listSources(): Promise<SourceListRow[]> {
   const db = await prismaReady();
-  const rows = await db.source.findMany({ orderBy: [{ year: "desc" }, { id: "asc" }], include: { _count: { select: { records: true } } } });
+  const rows = await db.source.findMany({ orderBy: [{ year: { sort: "desc", nulls: "last" } }, { id: "asc" }], include: { _count: { select: { records: true } } } });
   return rows.map((s) => ({ ...toRow(s), recordCount: s._count.records }));
 }
 

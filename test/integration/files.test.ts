@@ -2,24 +2,22 @@
 // and file names that never reach the file system.
 import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { sqlite } from "@/lib/db/connection";
-import { migrate } from "@/lib/db/migrate";
+import { beforeAll, describe, expect, test } from "vitest";
+import { sql } from "@/lib/db/sql";
 import { localActor, type Actor } from "@/lib/server/actor";
 import { attachPdfToSource, filesDir, listDocuments, openDocument, safeDisplayName, sniffFileKind, storedFilePath, uploadLimitBytes } from "@/lib/server/files";
 import { createSource } from "@/lib/server/sources";
 import { sourceInput } from "../support/fixtures";
 import { inventedPaperPdf, makePdf } from "../support/pdf";
-import { useTempDatabase } from "../support/temp-db";
+import { describeEachEngine } from "../support/engines";
 
-const tmp = useTempDatabase("files");
+describeEachEngine("stored files", (current) => {
 let actor: Actor;
 let sourceA: number;
 let sourceB: number;
 const { pdf } = inventedPaperPdf();
 
 beforeAll(async () => {
-  migrate(sqlite());
   actor = await localActor();
   const a = await createSource(sourceInput({ doi: "10.5555/files.a", title: "First invented paper for file tests" }), actor);
   const b = await createSource(sourceInput({ doi: "10.5555/files.b", title: "Second invented paper for file tests" }), actor);
@@ -27,9 +25,8 @@ beforeAll(async () => {
   sourceA = a.data.id;
   sourceB = b.data.id;
 });
-afterAll(() => tmp.cleanup());
 
-const count = (table: string) => (sqlite().prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n;
+const count = async (table: string) => (await sql().get<{ n: number }>(`SELECT COUNT(*) AS n FROM "${table}"`))!.n;
 
 describe("PDF upload", () => {
   test("is stored once by its SHA-256 next to the database, however often it is uploaded", async () => {
@@ -37,14 +34,14 @@ describe("PDF upload", () => {
     if (!first.ok) throw new Error(first.error.message);
     expect(first.data).toMatchObject({ sourceId: sourceA, fileName: "paper.pdf", alreadyStored: false, alreadyAttached: false, mimeType: "application/pdf", sizeBytes: pdf.length });
     const file = storedFilePath(first.data.sha256)!;
-    expect(file).toBe(path.join(path.dirname(tmp.filePath), "files", first.data.sha256.slice(0, 2), first.data.sha256));
+    expect(file).toBe(path.join(current().filesDir, first.data.sha256.slice(0, 2), first.data.sha256));
     expect(readFileSync(file).equals(pdf)).toBe(true);
 
     const again = await attachPdfToSource(sourceA, [pdf.subarray(0, 100), pdf.subarray(100)], "copy.pdf", actor);
     expect(again.ok && again.data).toMatchObject({ id: first.data.id, alreadyStored: true, alreadyAttached: true });
     const other = await attachPdfToSource(sourceB, [pdf], "paper.pdf", actor);
     expect(other.ok && other.data).toMatchObject({ alreadyStored: true, alreadyAttached: false });
-    expect(count("StoredFile")).toBe(1);
+    expect(await count("StoredFile")).toBe(1);
     expect(readdirSync(path.join(filesDir(), first.data.sha256.slice(0, 2)))).toEqual([first.data.sha256]);
     expect(readdirSync(path.join(filesDir(), ".incoming"))).toEqual([]);
 
@@ -60,14 +57,14 @@ describe("PDF upload", () => {
     ["a ZIP named .pdf", Buffer.from([0x50, 0x4b, 0x03, 0x04, 1, 2, 3]), "unsupported_type", /ZIP/],
     ["an empty file", Buffer.alloc(0), "invalid_input", /empty/],
   ])("%s is refused and nothing is stored", async (_label, bytes, code, message) => {
-    const files = count("StoredFile");
+    const files = await count("StoredFile");
     const r = await attachPdfToSource(sourceA, [bytes], "fake.pdf", actor);
     expect(r.ok).toBe(false);
     if (!r.ok) {
       expect(r.error.code).toBe(code);
       expect(r.error.message).toMatch(message);
     }
-    expect(count("StoredFile")).toBe(files);
+    expect(await count("StoredFile")).toBe(files);
     expect(readdirSync(path.join(filesDir(), ".incoming"))).toEqual([]);
   });
 
@@ -103,4 +100,5 @@ describe("PDF upload", () => {
   ])("sniffFileKind %#", (bytes, kind) => {
     expect(sniffFileKind(bytes)).toBe(kind);
   });
+});
 });

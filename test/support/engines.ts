@@ -20,6 +20,8 @@ export interface EngineDatabase {
   engine: DatabaseEngine;
   /** What DATABASE_URL is set to while the block runs. */
   url: string;
+  /** Where stored files go: next to the SQLite file, or MELTLEDGER_FILES_DIR (a temporary folder) beside PostgreSQL. */
+  filesDir: string;
 }
 
 /**
@@ -39,7 +41,7 @@ export function describeEachEngine(name: string, body: (current: () => EngineDat
       } finally {
         db.close();
       }
-      current = { engine: "sqlite", url: `file:${filePath}` };
+      current = { engine: "sqlite", url: `file:${filePath}`, filesDir: path.join(dir, "files") };
       process.env.DATABASE_URL = current.url;
     });
     afterAll(async () => {
@@ -52,14 +54,24 @@ export function describeEachEngine(name: string, body: (current: () => EngineDat
   describePostgres(`${name} (PostgreSQL)`, () => {
     const server = useTempPostgres("engines");
     let current: EngineDatabase | null = null;
+    let filesRoot = "";
+    const filesBefore = process.env.MELTLEDGER_FILES_DIR;
     beforeAll(async () => {
       const url = await server.createDatabase();
       await withPostgres(url, (client) => migratePostgres(client));
-      current = { engine: "postgresql", url };
+      // stored files beside a server database go to MELTLEDGER_FILES_DIR: a folder of the test's own, never ./data
+      filesRoot = mkdtempSync(path.join(os.tmpdir(), "meltledger-engines-files-"));
+      current = { engine: "postgresql", url, filesDir: path.join(filesRoot, "files") };
       process.env.DATABASE_URL = url;
+      process.env.MELTLEDGER_FILES_DIR = current.filesDir;
     });
     // before useTempPostgres drops the database (hooks registered later run first)
-    afterAll(releaseConnections);
+    afterAll(async () => {
+      await releaseConnections();
+      if (filesBefore === undefined) delete process.env.MELTLEDGER_FILES_DIR;
+      else process.env.MELTLEDGER_FILES_DIR = filesBefore;
+      if (filesRoot) rmSync(filesRoot, { recursive: true, force: true });
+    });
     body(() => current ?? fail());
   });
 }
