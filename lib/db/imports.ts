@@ -137,12 +137,12 @@ export async function saveMappingPreset(name: string, sourceId: number | null, m
   return { ...saved, mapping: parseMapping(saved.mapping) };
 }
 
-/** Named presets and, when a source is given, that source's presets; the source's first. */
+/** Named presets and, when a source is given, that source's presets; the source's first (NULLs last on both engines). */
 export async function listMappingPresets(sourceId: number | null): Promise<MappingPresetRow[]> {
   const db = await prismaReady();
   const rows = await db.mappingPreset.findMany({
     where: sourceId === null ? { sourceId: null } : { OR: [{ sourceId: null }, { sourceId }] },
-    orderBy: [{ sourceId: "desc" }, { name: "asc" }],
+    orderBy: [{ sourceId: { sort: "desc", nulls: "last" } }, { name: "asc" }, { id: "asc" }],
   });
   return rows.map((r) => ({ ...r, mapping: parseMapping(r.mapping) }));
 }
