@@ -544,8 +544,10 @@ async function writeImport(tx: SqlExecutor, w: ImportWrite): Promise<ImportWritt
     const chunkIds = await writePreparedRows(tx, chunk, stamp, writeOptions);
     for (let i = 0; i < chunk.length; i++) ids.push({ row: chunk[i]!.row, id: chunkIds[i]! });
     options.onProgress?.({ phase: "writing", rowsRead: analysis.rowCount, rowsWritten: ids.length, rowsTotal: total });
-    // a turn of the event loop between chunks: progress requests are answered, a cancel is seen
-    await yieldToLoop();
+    // No turn of the event loop is given here on purpose. On PostgreSQL every statement already
+    // waits on the server, and a cancel arrives meanwhile; on SQLite the transaction holds the
+    // process's raw connection, and a request served now that still writes on that connection
+    // directly (not through sql()) would write inside this transaction.
     if (cancelled(options.signal)) throw new ImportCancelled();
   }
 
