@@ -241,9 +241,9 @@ export function recordInsertValues(r: RecordWrite, actorId: number | null, at: S
 }
 
 /**
- * Rows per multi-row INSERT on PostgreSQL: one round trip per this many records (a round trip per
- * record is most of the time of a large import there), and 32 parameters a row stay far below
- * PostgreSQL's 65535 parameters per statement (PostgreSQL protocol: a 16-bit parameter count).
+ * Rows per multi-row INSERT on PostgreSQL: one round trip per this many records instead of one per
+ * record, and their 32,000 parameters stay below the 65,535 one statement can carry (the
+ * frontend/backend protocol's Bind message counts parameters in 16 bits).
  */
 export const POSTGRES_INSERT_ROWS = 1000;
 
@@ -265,8 +265,8 @@ async function sqliteLastRowId(db: SqlExecutor): Promise<number> {
 /**
  * Inserts records inside the caller's transaction and returns their ids in row order. `stamp` is
  * one author and time for all, or one per row (the demo scenario's history). SQLite runs one
- * cached prepared statement per row (nothing is faster there: there are no round trips); PostgreSQL one
- * multi-row INSERT … RETURNING "id" per POSTGRES_INSERT_ROWS rows.
+ * cached prepared statement per row (nothing is faster there: there are no round trips);
+ * PostgreSQL one multi-row INSERT … RETURNING "id" per POSTGRES_INSERT_ROWS rows.
  */
 export async function insertRecords(db: SqlExecutor, rows: readonly RecordWrite[], stamp: RecordStamp | ((index: number) => RecordStamp)): Promise<number[]> {
   const stampOf = typeof stamp === "function" ? stamp : () => stamp;
