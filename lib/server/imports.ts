@@ -12,8 +12,8 @@ import { mapImportRow, type RowProblem, type RowRecordInput } from "../domain/im
 import { normalizeBox, type PdfBox } from "../domain/pdf-table";
 import { looksLikeHeader, splitTableText, type PasteSplitter } from "../domain/table-text";
 import { requireRole, type Actor } from "./actor";
-import { checksAfterSave } from "./checks";
-import { bulkQualityScorer, prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
+import { checksAfterSave, qualityScorerFor } from "./checks";
+import { prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
 import { fail, guard, ok, type Result } from "./result";
 
 // ---------------------------------------------------------------------------------------------
@@ -534,7 +534,7 @@ async function writeImport(tx: SqlExecutor, w: ImportWrite): Promise<ImportWritt
   }
   for (const p of collected.rows) sourceIds.add(p.write.sourceId);
 
-  const quality = await bulkQualityScorer(tx, sourceIds);
+  const quality = await qualityScorerFor(tx, sourceIds);
   const writeOptions = { importFile: w.fileName, importRunId: runId, materials: new Map<string, number>(), quality };
   const stamp = { actorId: actor.id, at: w.at };
   const ids: ImportWritten["ids"] = [];

@@ -1,5 +1,4 @@
 import { appendAuditEvent } from "../db/audit-raw";
-import { sqlite } from "../db/connection";
 import { missingSourceIds } from "../db/imports";
 import { materialIdFor, type MaterialSpec } from "../db/materials";
 import { insertRecords, type RecordStamp, type RecordWrite } from "../db/records";
@@ -7,7 +6,7 @@ import { sql, type SqlExecutor } from "../db/sql";
 import { recordInputSchema } from "../schemas/record";
 import { parseRecordInputFast } from "../schemas/record-fast";
 import { requireRole, type Actor } from "./actor";
-import { checksAfterSave, qualityScorer } from "./checks";
+import { checksAfterSave, qualityScorerFor } from "./checks";
 import { prepareRecord } from "./record-write";
 import { fail, guard, ok, type Result } from "./result";
 
@@ -80,21 +79,11 @@ export interface WritePreparedOptions {
   importRunId?: number | null;
   /** Shared across calls of one transaction so each material is looked up once (fingerprint -> id). */
   materials: Map<string, number>;
-  /** Quality score of each row as the checks would compute it (see bulkQualityScorer); null when absent. */
+  /** Quality score of each row as the checks would compute it (qualityScorerFor); null when absent. */
   quality?: QualityScorer;
 }
 
 export type QualityScorer = (w: Omit<RecordWrite, "materialId">) => number;
-
-/**
- * The quality scorer for rows of the given sources, loaded before the rows are written, in the
- * writing transaction `db`.
- */
-export async function bulkQualityScorer(db: SqlExecutor, _sourceIds: Iterable<number>): Promise<QualityScorer | undefined> {
-  // The check settings and source scores are read on the raw SQLite connection, which on SQLite is
-  // the one `db`'s transaction runs on; on PostgreSQL the check run that follows the write scores them.
-  return db.engine === "sqlite" ? qualityScorer(sqlite()) : undefined;
-}
 
 /**
  * Writes prepared rows inside the caller's transaction `db`; the caller has checked that the
@@ -151,7 +140,7 @@ export async function insertRecordsBulk(inputs: readonly unknown[], actor: Actor
     const result = await sql().transaction(async (tx): Promise<BulkResult | { missingSource: number }> => {
       const missing = await missingSourceIds(tx, sourceIds);
       if (missing.length) return { missingSource: missing[0]! };
-      const writeOptions = { importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, materials: new Map<string, number>(), quality: await bulkQualityScorer(tx, sourceIds) };
+      const writeOptions = { importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, materials: new Map<string, number>(), quality: await qualityScorerFor(tx, sourceIds) };
       const ids = await writePreparedRows(tx, writes, stamp, writeOptions);
       await appendAuditEvent(tx, {
         actorId: actor.id,
