@@ -624,6 +624,9 @@ export async function commitImport(input: TableInput, options: ImportOptions, ac
       if (error instanceof ImportCancelled) return cancelledResult();
       throw error;
     }
+    // The written rows can go before the checks load the records they need (peak memory).
+    collected.rows.length = 0;
+    collected.bySourceKey.clear();
     const imported = written.ids.length;
     let checks: ImportCommit["checks"] = null;
     if (!options.deferChecks && imported > 0) {
