@@ -244,24 +244,15 @@ function sourceAttributes(rows: RawSource[]): Map<number, SourceAttributeRow> {
 const isRaw = (db: SqlExecutor | SqliteDatabase): db is SqliteDatabase => !("engine" in db);
 
 /** The attributes the source score reads, per source id. */
-export function loadSourceAttributes(db: SqlExecutor, ids: readonly number[] | "all"): Promise<Map<number, SourceAttributeRow>>;
-/** @deprecated Transitional: the raw SQLite connection, for the synchronous qualityScorer until bulk writes move to sql.ts. */
-export function loadSourceAttributes(db: SqliteDatabase, ids: readonly number[] | "all"): Map<number, SourceAttributeRow>;
-export function loadSourceAttributes(db: SqlExecutor | SqliteDatabase, ids: readonly number[] | "all"): Promise<Map<number, SourceAttributeRow>> | Map<number, SourceAttributeRow> {
+export async function loadSourceAttributes(db: SqlExecutor, ids: readonly number[] | "all"): Promise<Map<number, SourceAttributeRow>> {
   const query = `SELECT ${SOURCE_COLUMNS} FROM "Source"`;
-  if (isRaw(db)) {
-    const rows = ids === "all" ? db.prepare(query).all() : ids.length ? db.prepare(`${query} WHERE "id" IN (${ids.map(() => "?").join(",")})`).all(...ids) : [];
-    return sourceAttributes(rows as RawSource[]);
+  if (ids === "all") return sourceAttributes(await db.all<RawSource>(query));
+  const rows: RawSource[] = [];
+  for (let i = 0; i < ids.length; i += 500) {
+    const part = ids.slice(i, i + 500);
+    rows.push(...(await db.all<RawSource>(`${query} WHERE "id" IN (${part.map(() => "?").join(",")})`, part)));
   }
-  return (async () => {
-    if (ids === "all") return sourceAttributes(await db.all<RawSource>(query));
-    const rows: RawSource[] = [];
-    for (let i = 0; i < ids.length; i += 500) {
-      const part = ids.slice(i, i + 500);
-      rows.push(...(await db.all<RawSource>(`${query} WHERE "id" IN (${part.map(() => "?").join(",")})`, part)));
-    }
-    return sourceAttributes(rows);
-  })();
+  return sourceAttributes(rows);
 }
 
 /** How many records a source has, their mean quality, and who set its quality override. */

@@ -15,14 +15,13 @@ import { completenessValueOf, recordQuality } from "../domain/record-quality";
 import { scoreSource } from "../domain/source-quality";
 import { appendAuditEvent } from "../db/audit-raw";
 import { loadCheckRecords, loadPropertyOverrides, loadSourceAttributes, recordKeys, reopenAcceptedRecords, writeQualityScores, type CheckInputRow } from "../db/check-inputs";
-import { sqlite, type SqliteDatabase } from "../db/connection";
 import type { RecordWrite } from "../db/records";
 import { flagFingerprint, flagsForRun, insertFlags, recordsWithOpenFlagsRelatedTo, refreshFlags, reopenFlags, resolveFlagsAuto, type FlagForRun, type FlagWrite } from "../db/flags";
 import { distinctPairKeys, pairKey } from "../db/pairs";
 import { sql, type SqlExecutor } from "../db/sql";
 import { z } from "zod";
 import { requireRole, type Actor } from "./actor";
-import { checkSettingsVersion, currentCheckSettings, currentCheckSettingsSync, isoNow, type SettingsVersionInfo } from "./check-settings";
+import { checkSettingsVersion, currentCheckSettings, isoNow, type SettingsVersionInfo } from "./check-settings";
 import { fail, guard, invalid, ok, type Result } from "./result";
 
 export interface CheckRunSummary {
@@ -219,25 +218,6 @@ export async function qualityScorerFor(db: SqlExecutor, sourceIds: Iterable<numb
   return (w) => {
     const score = sourceScores.get(w.sourceId);
     if (score === undefined) throw new RangeError(`qualityScorerFor: source ${w.sourceId} was not among the sources given (${ids.join(", ") || "none"})`);
-    return qualityOf(w, score, settings);
-  };
-}
-
-/**
- * TRANSITIONAL: qualityScorer on the raw SQLite connection, for the bulk writers that still run
- * synchronously on it (records-bulk, imports); they move to qualityScorerFor with sql.ts. Source
- * scores are read once per source, on first use.
- */
-export function qualityScorer(db: SqliteDatabase = sqlite()): (w: Omit<RecordWrite, "materialId">) => number {
-  const settings = currentCheckSettingsSync(db).values;
-  const sourceScores = new Map<number, number>();
-  return (w) => {
-    let score = sourceScores.get(w.sourceId);
-    if (score === undefined) {
-      const attributes = loadSourceAttributes(db, [w.sourceId]).get(w.sourceId);
-      score = attributes ? scoreSource(attributes, settings).score : 0;
-      sourceScores.set(w.sourceId, score);
-    }
     return qualityOf(w, score, settings);
   };
 }
