@@ -102,10 +102,10 @@ describe("without a session (team mode)", () => {
     }
   }
 
-  test("pages redirect to the login page; the login page itself answers", () => {
+  test("pages redirect to the login page; the login page itself answers", async () => {
     const facts = requestFactsOf(headersOf("anonymous"), { method: "GET" });
-    expect(gateRequest(facts, "/records").action).toBe("redirect");
-    expect(gateRequest(facts, "/login").action).toBe("next");
+    expect((await gateRequest(facts, "/records")).action).toBe("redirect");
+    expect((await gateRequest(facts, "/login")).action).toBe("next");
   });
 });
 
@@ -150,10 +150,10 @@ describe("each role is refused what it may not do", () => {
     }
   });
 
-  test.each(["contributor", "reviewer"] as const)("%s is kept out of /admin by the proxy gate; an admin is let in", (who) => {
-    const gate = gateRequest(requestFactsOf(headersOf(who), { method: "GET" }), "/admin/users");
+  test.each(["contributor", "reviewer"] as const)("%s is kept out of /admin by the proxy gate; an admin is let in", async (who) => {
+    const gate = await gateRequest(requestFactsOf(headersOf(who), { method: "GET" }), "/admin/users");
     expect(gate.action === "deny" && gate.error.code).toBe("forbidden");
-    expect(gateRequest(requestFactsOf(headersOf("admin"), { method: "GET" }), "/admin/users").action).toBe("next");
+    expect((await gateRequest(requestFactsOf(headersOf("admin"), { method: "GET" }), "/admin/users")).action).toBe("next");
   });
 
   test("a contributor can enter a record through the API and its audit event names them", async () => {
