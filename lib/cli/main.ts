@@ -1,5 +1,6 @@
 import { closeSqlite } from "../db/connection";
 import { disconnectPrisma } from "../db/client";
+import { closeSql } from "../db/sql";
 import type { CliCommand, CliIo } from "./types";
 
 const HELP = `meltledger — curation workbench for LPBF build records
@@ -8,7 +9,9 @@ Commands:
   db migrate                         apply pending database migrations
   db seed [--reset] [--if-empty]     seed the demo scenario (--reset keeps the old database file aside and starts anew)
   db backup OUT                      consistent online snapshot of the database and its stored files, with a manifest of SHA-256 hashes
-  db restore IN                      verify every hash of a backup, then put it in place (the replaced database is kept aside)
+                                     (PostgreSQL: pg_dump from an exported snapshot, with every table's row count and digest)
+  db restore IN [--replace]          verify every hash of a backup, then put it in place (the replaced database is kept aside;
+                                     PostgreSQL: an empty database, or --replace to rename the current schema aside)
   db copy --from file:./data/meltledger.db --to postgresql://USER@HOST:5432/NAME --files-to DIR [--json]
                                      move a SQLite database and its stored files to an empty PostgreSQL database (all or nothing), verified by counts and hashes
   records list --json [filters]      list records (--alloy, --source, --status, --outcome, --power/--speed/--hatch/--layer MIN-MAX, --limit N)
@@ -70,6 +73,7 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     return await (await load())(rest, io);
   } finally {
     await disconnectPrisma();
+    await closeSql();
     closeSqlite();
   }
 }

@@ -267,8 +267,8 @@ export async function logout(facts: RequestFacts): Promise<Result<{ cookie: Sess
 
 export type GateDecision = { action: "next" } | { action: "redirect"; location: string } | { action: "deny"; error: AppError };
 
-/** Paths anyone may reach in team mode: the login page and the viewer's static worker. */
-const PUBLIC_PATHS = [/^\/login(\/|$)/, /^\/api\/pdf-worker$/];
+/** Paths anyone may reach in team mode: the login page, its API twin (POST /api/session) and the viewer's static worker. */
+const PUBLIC_PATHS = [/^\/login(\/|$)/, /^\/api\/session$/, /^\/api\/pdf-worker$/];
 /** Paths only admins may open. */
 const ADMIN_PATHS = [/^\/admin(\/|$)/];
 

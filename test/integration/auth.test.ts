@@ -159,6 +159,31 @@ describeEachEngine("accounts and sessions", (current) => {
       expect(!r.ok && r.error.code).toBe("forbidden");
     });
 
+    test("POST /api/session logs in over HTTP (cookie in the answer, usable on the API), a wrong password is a 401, DELETE logs out", async () => {
+      process.env.MELTLEDGER_MODE = "team";
+      const { NextRequest } = await import("next/server");
+      const route = (await import("@/app/api/session/route")) as { POST: (r: Request) => Promise<Response>; DELETE: (r: Request) => Promise<Response> };
+      const records = (await import("@/app/api/records/route")) as { GET: (r: InstanceType<typeof NextRequest>) => Promise<Response> };
+      const post = (body: unknown) => route.POST(new Request("http://127.0.0.1:3000/api/session", { method: "POST", headers: { host: "127.0.0.1:3000", "content-type": "application/json" }, body: JSON.stringify(body) }));
+      const wrong = await post({ name: "Quill Maren", password: "not-the-password" });
+      expect(wrong.status).toBe(401);
+      expect(wrong.headers.get("set-cookie")).toBeNull();
+      const res = await post({ name: "Quill Maren", password: "a-long-test-password" });
+      expect(res.status).toBe(200);
+      expect(await res.json()).toMatchObject({ user: { name: "Quill Maren", role: "reviewer" } });
+      const setCookie = res.headers.get("set-cookie") ?? "";
+      expect(setCookie).toMatch(/^meltledger_session=[A-Za-z0-9_-]{43};/);
+      expect(setCookie).toMatch(/HttpOnly/i);
+      expect(setCookie).toMatch(/SameSite=lax/i);
+      const cookie = setCookie.split(";")[0]!;
+      const headers = { host: "127.0.0.1:3000", cookie };
+      expect((await records.GET(new NextRequest("http://127.0.0.1:3000/api/records?pageSize=1", { headers }))).status).toBe(200);
+      expect((await gateRequest(facts({ sessionToken: cookie.split("=")[1]! }), "/api/records")).action).toBe("next");
+      const out = await route.DELETE(new Request("http://127.0.0.1:3000/api/session", { method: "DELETE", headers }));
+      expect(out.status).toBe(200);
+      expect((await records.GET(new NextRequest("http://127.0.0.1:3000/api/records?pageSize=1", { headers }))).status).toBe(401);
+    });
+
     test("the proxy's gate sends pages to the login page, answers 401 to the API and keeps non-admins out of /admin", async () => {
       process.env.MELTLEDGER_MODE = "team";
       expect(await gateRequest(facts(), "/records", "?page=2")).toEqual({ action: "redirect", location: "/login?next=%2Frecords%3Fpage%3D2" });
