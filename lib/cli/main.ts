@@ -39,8 +39,8 @@ Commands:
   users set NAME [--role R] [--disable | --enable] [--password-stdin]
                                      change an account (disabling it or setting its password ends its sessions)
 
-DATABASE_URL selects the database (default file:./data/meltledger.db). A postgresql:// URL works so far
-for \`db migrate\` only: the other commands and the web app still need a SQLite file.
+DATABASE_URL selects the database: a SQLite file (default file:./data/meltledger.db) or a PostgreSQL
+server (postgresql://USER@HOST:5432/NAME; stored files then live in MELTLEDGER_FILES_DIR, default ./data/files).
 `;
 
 const COMMANDS: Record<string, () => Promise<CliCommand>> = {
