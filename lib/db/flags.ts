@@ -230,7 +230,8 @@ export async function setFlagStateIfVersion(db: SqlExecutor, id: number, version
 
 /**
  * A reviewer's change of state with its audit event, atomically, only if the flag is still open at
- * `version`; false means someone else acted first (and nothing was written). For the actions that
+ * `version` and its record is neither rejected nor merged; false means someone else acted first
+ * (and nothing was written). For the actions that
  * change nothing else (a waiver), so that many reviewers acting at once stay fast:
  * - PostgreSQL: one statement, the UPDATE in a WITH feeding the audit INSERT. It is its own
  *   transaction, at READ COMMITTED: a concurrent writer's committed row is re-checked against the
@@ -245,7 +246,10 @@ export async function setFlagStateAudited(
   s: { state: FlagState; resolution: string; reason: string | null; actorId: number | null; at: string },
   audit: AuditInput,
 ): Promise<boolean> {
-  const update = `UPDATE "Flag" SET "state" = ?, "resolution" = ?, "reason" = ?, "resolvedById" = ?, "resolvedAt" = ?, "version" = "version" + 1 WHERE "id" = ? AND "version" = ? AND "state" = 'open'`;
+  // only on a record still in the collection: a rejected or merged record's flags are closed
+  const update = `UPDATE "Flag" SET "state" = ?, "resolution" = ?, "reason" = ?, "resolvedById" = ?, "resolvedAt" = ?, "version" = "version" + 1
+    WHERE "id" = ? AND "version" = ? AND "state" = 'open'
+      AND EXISTS (SELECT 1 FROM "BuildRecord" r WHERE r."id" = "Flag"."recordId" AND r."status" NOT IN ('rejected', 'merged'))`;
   const updateParams: SqlValue[] = [s.state, s.resolution, s.reason, s.actorId, s.at, id, version];
   const event = { ...audit, at: s.at };
   if (db.engine === "sqlite") {

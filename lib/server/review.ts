@@ -154,7 +154,7 @@ async function waiveFlag(input: ParsedAction, actor: Actor): Promise<FlagActionR
   });
   if (!done) {
     // someone acted between the read and the write: say who and what, as for a stale version
-    await loadFlagForAction(db, flag.id, flag.version);
+    requireActionable(await loadFlagForAction(db, flag.id, flag.version));
     lostRace(flag.id);
   }
   return {

@@ -101,6 +101,13 @@ describeEachEngine("flags, pairs and the queue", (current) => {
     expect(await audits()).toHaveLength(1);
     expect(await getFlag(sql(), f.id)).toMatchObject({ state: "waived", version: f.version + 1, reason: (await audits())[0], resolvedById: 1 });
     expect((await listFlags(sql(), { recordId: 3, state: "waived" }))[0]?.resolvedByName).toBe("invented reviewer");
+    // a flag of a record rejected meanwhile is no longer acted on
+    const [onRejected] = await listFlags(sql(), { recordId: 4, state: "open" });
+    await sql().run(`UPDATE "BuildRecord" SET "status" = 'rejected' WHERE "id" = 4`);
+    const late = await setFlagStateAudited(sql(), onRejected!.id, onRejected!.version, { state: "waived", resolution: "waive", reason: "late", actorId: 1, at: AT }, { actorId: 1, actorName: "invented reviewer", action: "waive", entityType: "flag", entityId: onRejected!.id, reason: "late" });
+    expect(late).toBe(false);
+    expect(await getFlag(sql(), onRejected!.id)).toMatchObject({ state: "open", version: onRejected!.version });
+    expect(await sql().get(`SELECT "id" FROM "AuditEvent" WHERE "entityId" = ?`, [String(onRejected!.id)])).toBeUndefined();
   });
 
   test("one flag inserted alone gives its id; pair decisions are stored once per unordered pair", async () => {
