@@ -6,6 +6,7 @@ import path from "node:path";
 import { closeSqlite, openSqlite, sqlite } from "../lib/db/connection";
 import { disconnectPrisma } from "../lib/db/client";
 import { migrate } from "../lib/db/migrate";
+import { closeSql } from "../lib/db/sql";
 import { RECORD_FILTER_INDEX, RECORD_INSERT_SQL, recordInsertValues, recordsOrderBy, recordsWhere, type RecordWrite } from "../lib/db/records";
 import { localActor } from "../lib/server/actor";
 import { listRecords } from "../lib/server/records";
@@ -25,6 +26,7 @@ function median(xs: number[]): number {
 }
 
 async function freshDatabase(label: string): Promise<{ dir: string }> {
+  await closeSql();
   await disconnectPrisma();
   closeSqlite();
   const dir = mkdtempSync(path.join(os.tmpdir(), `meltledger-bench-${label}-`));
@@ -132,6 +134,7 @@ export const recordsBench: BenchSuite = async () => {
     notes: `page select alone: median ${median(selectTimes.slice(queries.length)).toFixed(2)} ms`,
   });
 
+  await closeSql();
   await disconnectPrisma();
   closeSqlite();
   rmSync(serverDb.dir, { recursive: true, force: true });

@@ -1,5 +1,5 @@
-import type { SqliteDatabase } from "./connection";
 import { prismaReady } from "./client";
+import type { SqlExecutor } from "./sql";
 
 export interface ImportRunWrite {
   fileName: string;
@@ -13,41 +13,56 @@ export interface ImportRunWrite {
   excludedCount: number;
   status: "committed" | "failed" | "cancelled";
   createdById: number | null;
-  at: string;
+  at: Date;
 }
 
-/** Records one import run on the raw connection (inside the import's transaction when it commits). */
-export function insertImportRunRaw(db: SqliteDatabase, r: ImportRunWrite): number {
-  return Number(
-    db
-      .prepare(`INSERT INTO ImportRun (fileName, fileSha256, format, sheet, mapping, sourceId, rowCount, importedCount, excludedCount, status, createdById, createdAt) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
-      .run(r.fileName, r.fileSha256, r.format, r.sheet, JSON.stringify(r.mapping ?? {}), r.sourceId, r.rowCount, r.importedCount, r.excludedCount, r.status, r.createdById, r.at).lastInsertRowid,
+/** Records one import run (inside the import's transaction when it commits); returns its id. */
+export async function insertImportRun(db: SqlExecutor, r: ImportRunWrite): Promise<number> {
+  const { lastInsertId } = await db.run(
+    `INSERT INTO "ImportRun" ("fileName", "fileSha256", "format", "sheet", "mapping", "sourceId", "rowCount", "importedCount", "excludedCount", "status", "createdById", "createdAt") VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING "id"`,
+    [r.fileName, r.fileSha256, r.format, r.sheet, JSON.stringify(r.mapping ?? {}), r.sourceId, r.rowCount, r.importedCount, r.excludedCount, r.status, r.createdById, r.at],
   );
+  return lastInsertId!;
 }
 
-export function finishImportRunRaw(db: SqliteDatabase, id: number, counts: { rowCount: number; importedCount: number; excludedCount: number }): void {
-  db.prepare(`UPDATE ImportRun SET rowCount = ?, importedCount = ?, excludedCount = ? WHERE id = ?`).run(counts.rowCount, counts.importedCount, counts.excludedCount, id);
+export async function finishImportRun(db: SqlExecutor, id: number, counts: { rowCount: number; importedCount: number; excludedCount: number }): Promise<void> {
+  await db.run(`UPDATE "ImportRun" SET "rowCount" = ?, "importedCount" = ?, "excludedCount" = ? WHERE "id" = ?`, [counts.rowCount, counts.importedCount, counts.excludedCount, id]);
 }
 
-/** Source ids by normalized DOI, for the DOIs given. */
-export function sourceIdsByDoiRaw(db: SqliteDatabase, dois: readonly string[]): Map<string, number> {
+/** Well below both engines' limits on parameters in one statement (SQLite 32766, PostgreSQL 65535). */
+const LOOKUP_CHUNK = 500;
+
+/** Source ids by normalized DOI, for the DOIs given (those in the collection). */
+export async function sourceIdsByDoi(db: SqlExecutor, dois: readonly string[]): Promise<Map<string, number>> {
   const out = new Map<string, number>();
-  const stmt = db.prepare(`SELECT id FROM Source WHERE doi = ?`);
-  for (const doi of dois) {
-    const row = stmt.get(doi) as { id: number } | undefined;
-    if (row) out.set(doi, row.id);
+  const unique = [...new Set(dois)];
+  for (let i = 0; i < unique.length; i += LOOKUP_CHUNK) {
+    const chunk = unique.slice(i, i + LOOKUP_CHUNK);
+    const rows = await db.all<{ id: number; doi: string }>(`SELECT "id", "doi" FROM "Source" WHERE "doi" IN (${chunk.map(() => "?").join(", ")})`, chunk);
+    for (const r of rows) out.set(r.doi, r.id);
   }
   return out;
 }
 
 /** The source known only by a web address (no DOI), if one. */
-export function sourceIdByUrlRaw(db: SqliteDatabase, url: string): number | null {
-  const row = db.prepare(`SELECT id FROM Source WHERE doi IS NULL AND url = ? ORDER BY id LIMIT 1`).get(url) as { id: number } | undefined;
+export async function sourceIdByUrl(db: SqlExecutor, url: string): Promise<number | null> {
+  const row = await db.get<{ id: number }>(`SELECT "id" FROM "Source" WHERE "doi" IS NULL AND "url" = ? ORDER BY "id" LIMIT 1`, [url]);
   return row?.id ?? null;
 }
 
-export function sourceExistsRaw(db: SqliteDatabase, id: number): boolean {
-  return db.prepare(`SELECT 1 FROM Source WHERE id = ?`).get(id) !== undefined;
+export async function sourceExists(db: SqlExecutor, id: number): Promise<boolean> {
+  return (await db.get(`SELECT 1 AS "one" FROM "Source" WHERE "id" = ?`, [id])) !== undefined;
+}
+
+/** The ids among those given that name no source. */
+export async function missingSourceIds(db: SqlExecutor, ids: Iterable<number>): Promise<number[]> {
+  const unique = [...new Set(ids)];
+  const found = new Set<number>();
+  for (let i = 0; i < unique.length; i += LOOKUP_CHUNK) {
+    const chunk = unique.slice(i, i + LOOKUP_CHUNK);
+    for (const r of await db.all<{ id: number }>(`SELECT "id" FROM "Source" WHERE "id" IN (${chunk.map(() => "?").join(", ")})`, chunk)) found.add(r.id);
+  }
+  return unique.filter((id) => !found.has(id));
 }
 
 export interface PlaceholderSource {
@@ -60,12 +75,12 @@ export interface PlaceholderSource {
 }
 
 /** A source known only by its DOI (or web address), created by an import; completed later by a person. */
-export function insertPlaceholderSourceRaw(db: SqliteDatabase, s: PlaceholderSource, actorId: number | null, at: string): number {
-  return Number(
-    db
-      .prepare(`INSERT INTO Source (kind, title, titleKey, doi, url, notes, createdById, updatedById, createdAt, updatedAt) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
-      .run(s.kind, s.title, s.titleKey, s.doi, s.url, s.notes, actorId, actorId, at, at).lastInsertRowid,
+export async function insertPlaceholderSource(db: SqlExecutor, s: PlaceholderSource, actorId: number | null, at: Date): Promise<number> {
+  const { lastInsertId } = await db.run(
+    `INSERT INTO "Source" ("kind", "title", "titleKey", "doi", "url", "notes", "createdById", "updatedById", "createdAt", "updatedAt") VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING "id"`,
+    [s.kind, s.title, s.titleKey, s.doi, s.url, s.notes, actorId, actorId, at, at],
   );
+  return lastInsertId!;
 }
 
 export interface ImportRunRow {
@@ -122,12 +137,12 @@ export async function saveMappingPreset(name: string, sourceId: number | null, m
   return { ...saved, mapping: parseMapping(saved.mapping) };
 }
 
-/** Named presets and, when a source is given, that source's presets; the source's first. */
+/** Named presets and, when a source is given, that source's presets; the source's first (NULLs last on both engines). */
 export async function listMappingPresets(sourceId: number | null): Promise<MappingPresetRow[]> {
   const db = await prismaReady();
   const rows = await db.mappingPreset.findMany({
     where: sourceId === null ? { sourceId: null } : { OR: [{ sourceId: null }, { sourceId }] },
-    orderBy: [{ sourceId: "desc" }, { name: "asc" }],
+    orderBy: [{ sourceId: { sort: "desc", nulls: "last" } }, { name: "asc" }, { id: "asc" }],
   });
   return rows.map((r) => ({ ...r, mapping: parseMapping(r.mapping) }));
 }

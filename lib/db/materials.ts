@@ -1,5 +1,5 @@
 import type { Prisma } from "../generated/prisma/client";
-import type { SqliteDatabase } from "./connection";
+import type { SqlExecutor } from "./sql";
 
 type Tx = Prisma.TransactionClient;
 
@@ -38,26 +38,33 @@ export async function findOrCreateMaterial(tx: Tx, m: MaterialSpec): Promise<num
   return created.id;
 }
 
-/** The same on the raw connection, for bulk writes already inside a better-sqlite3 transaction. */
 // Bulk writes hand the same spec object for every row of one alloy (record-write memoizes them):
 // its fingerprint is worked out once.
 const fingerprintOf = new WeakMap<MaterialSpec, string>();
 
-export function findOrCreateMaterialRaw(db: SqliteDatabase, m: MaterialSpec, cache: Map<string, number>): number {
+/**
+ * The material's id, created with its components when it is new: findOrCreateMaterial for the bulk
+ * paths, inside the caller's transaction on either engine (sql.ts). `cache` (fingerprint -> id) is
+ * the caller's for one transaction, so each material is looked up once per batch.
+ */
+export async function materialIdFor(db: SqlExecutor, m: MaterialSpec, cache: Map<string, number>): Promise<number> {
   let fingerprint = fingerprintOf.get(m);
   if (fingerprint === undefined) fingerprintOf.set(m, (fingerprint = materialFingerprint(m)));
   const cached = cache.get(fingerprint);
   if (cached !== undefined) return cached;
-  const found = db.prepare(`SELECT id FROM Material WHERE fingerprint = ?`).get(fingerprint) as { id: number } | undefined;
+  // DO NOTHING when another writer has it already: that row is read below
+  const created = await db.run(
+    `INSERT INTO "Material" ("designation", "alloyKey", "basis", "compositionKind", "fingerprint", "createdAt") VALUES (?, ?, ?, ?, ?, ?) ON CONFLICT ("fingerprint") DO NOTHING RETURNING "id"`,
+    [m.designation, m.alloyKey, m.basis, m.compositionKind, fingerprint, new Date()],
+  );
   let id: number;
-  if (found) id = found.id;
-  else {
-    id = Number(
-      db.prepare(`INSERT INTO Material (designation, alloyKey, basis, compositionKind, fingerprint, createdAt) VALUES (?, ?, ?, ?, ?, ?)`)
-        .run(m.designation, m.alloyKey, m.basis, m.compositionKind, fingerprint, new Date().toISOString().replace("Z", "+00:00")).lastInsertRowid,
-    );
-    const comp = db.prepare(`INSERT INTO MaterialComponent (materialId, element, amount, isBalance) VALUES (?, ?, ?, ?)`);
-    for (const c of m.components) comp.run(id, c.element, c.amount, c.isBalance ? 1 : 0);
+  if (created.lastInsertId !== null) {
+    id = created.lastInsertId;
+    for (const c of m.components) {
+      await db.run(`INSERT INTO "MaterialComponent" ("materialId", "element", "amount", "isBalance") VALUES (?, ?, ?, ?)`, [id, c.element, c.amount, c.isBalance]);
+    }
+  } else {
+    id = (await db.get<{ id: number }>(`SELECT "id" FROM "Material" WHERE "fingerprint" = ?`, [fingerprint]))!.id;
   }
   cache.set(fingerprint, id);
   return id;

@@ -2,10 +2,9 @@ import { createReadStream, openSync, readSync, closeSync } from "node:fs";
 import { parse as csvParse } from "csv-parse";
 import readExcelFile from "read-excel-file/node";
 import { z } from "zod";
-import { appendAuditRaw } from "../db/audit-raw";
-import { openSqlite, sqlite, type SqliteDatabase } from "../db/connection";
-import { finishImportRunRaw, getMappingPreset, insertImportRunRaw, insertPlaceholderSourceRaw, listImportRuns, listMappingPresets, saveMappingPreset, sourceExistsRaw, sourceIdByUrlRaw, sourceIdsByDoiRaw, type ImportRunRow, type MappingPresetRow } from "../db/imports";
-import { resolveDatabaseLocation } from "../db/location";
+import { appendAuditEvent } from "../db/audit-raw";
+import { finishImportRun, getMappingPreset, insertImportRun, insertPlaceholderSource, listImportRuns, listMappingPresets, saveMappingPreset, sourceExists, sourceIdByUrl, sourceIdsByDoi, type ImportRunRow, type MappingPresetRow } from "../db/imports";
+import { sql, type SqlExecutor } from "../db/sql";
 import { hasMappingErrors, IMPORT_FIELDS, resolveMapping, type ImportMapping, type MappingIssue, type ResolvedMapping } from "../domain/column-mapping";
 import { csvParseOptions, describeCsvError, sniffDelimiter, type CsvDelimiter } from "../domain/csv";
 import { normalizeDoi, titleKey } from "../domain/doi";
@@ -13,7 +12,7 @@ import { mapImportRow, type RowProblem, type RowRecordInput } from "../domain/im
 import { normalizeBox, type PdfBox } from "../domain/pdf-table";
 import { looksLikeHeader, splitTableText, type PasteSplitter } from "../domain/table-text";
 import { requireRole, type Actor } from "./actor";
-import { checksAfterSave, qualityScorer } from "./checks";
+import { checksAfterSave, qualityScorerFor } from "./checks";
 import { prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
 import { fail, guard, ok, type Result } from "./result";
 
@@ -176,8 +175,12 @@ export interface ImportOptions {
 }
 
 export interface ImportProgress {
-  /** "reading": rows are read, validated and written as they come; "checking": the committed records go through the plausibility and duplicate checks; "done". */
-  phase: "reading" | "checking" | "done";
+  /**
+   * "reading": rows are read and validated, nothing is written yet; "writing": the rows that passed
+   * are written in one transaction; "checking": the committed records go through the plausibility
+   * and duplicate checks; "done".
+   */
+  phase: "reading" | "writing" | "checking" | "done";
   rowsRead: number;
   rowsWritten: number;
   /** Rows written in the end, once known. */
@@ -236,7 +239,7 @@ export interface ImportCommit {
 /** Stands in for a source the preview has not created (a DOI not yet in the collection). */
 const PENDING_SOURCE = 2_147_483_647;
 const PROGRESS_EVERY = 2000;
-const WRITE_CHUNK = 2000;
+const WRITE_CHUNK = 1000;
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
 
@@ -244,23 +247,20 @@ function cancelled(signal: AbortSignal | undefined): boolean {
   return signal?.aborted === true;
 }
 
-/** Present when the import writes: rows go to the database while the table is read, inside one transaction. */
-interface Writer {
-  db: SqliteDatabase;
-  runId: number;
-  actor: Actor;
-  at: string;
-  fileName: string;
-  /** Keep writing after a row with errors (the user chose to leave such rows out). */
-  excludeErrors: boolean;
-  ids: { row: number; id: number }[];
-  createdSources: { doi: string | null; url: string | null; id: number }[];
+/** The rows an import will write, gathered while the table is read (only when it commits). */
+interface Collected {
+  /** Every row that passed its checks, in table order. */
+  rows: PreparedBulkRow[];
+  /** The rows whose source the collection did not hold when the table was read, by source key ("doi:…", "url:…"). */
+  bySourceKey: Map<string, PreparedBulkRow[]>;
 }
 
 interface Analysed {
   analysis: ImportAnalysis;
-  /** Rows that passed every check (written when there is a writer). */
+  /** Rows that passed every check. */
   validRows: number;
+  /** The rows to write; null for a preview or a dry run, or once a row with errors stops the import. */
+  collected: Collected | null;
 }
 
 const FIELD_KEY: Record<string, string> = {
@@ -268,26 +268,13 @@ const FIELD_KEY: Record<string, string> = {
   preheat: "preheatC", powderD10: "powderD10Um", powderD50: "powderD50Um", powderD90: "powderD90Um", relativeDensity: "relativeDensityPct",
 };
 
-function createPlaceholderSource(w: Writer, use: ImportSourceUse): number {
-  const title = use.doi ? `Source with DOI ${use.doi}` : `Source at ${use.url}`.slice(0, 500);
-  const id = insertPlaceholderSourceRaw(
-    w.db,
-    { kind: "journal_article", title, titleKey: titleKey(title), doi: use.doi, url: use.url, notes: `Created by importing ${w.fileName} (import run ${w.runId}), known only by its ${use.doi ? "DOI" : "web address"}: complete the title, authors, year and kind.` },
-    w.actor.id,
-    w.at,
-  );
-  appendAuditRaw(w.db, { actorId: w.actor.id, actorName: w.actor.name, action: "create", entityType: "source", entityId: id, after: { doi: use.doi, url: use.url, title, createdBy: `import run ${w.runId}` }, at: w.at });
-  w.createdSources.push({ doi: use.doi, url: use.url, id });
-  return id;
-}
-
 /**
- * Reads the table row by row: maps, checks and (with a writer) writes each row, holding only the
- * rows of the current write chunk. Every problem is collected; with a writer and without
- * excludeErrors, writing stops at the first row with an error (the caller then rolls back) while
- * checking goes on, so the user sees every problem at once.
+ * Reads the table row by row: maps and checks each row and, when `collect` is set, keeps the
+ * rows that passed for the write that follows. Every problem is collected; without
+ * excludeErrors, the first row with an error drops what was kept (nothing will be written) while
+ * checking goes on, so the user sees every problem at once. Writes nothing.
  */
-async function analyse(input: TableInput, options: ImportOptions, db: SqliteDatabase, writer: Writer | null): Promise<Result<Analysed> | "cancelled"> {
+async function analyse(input: TableInput, options: ImportOptions, db: SqlExecutor, collect: boolean): Promise<Result<Analysed> | "cancelled"> {
   let table: Awaited<ReturnType<typeof openTable>>;
   try {
     table = await openTable(input);
@@ -300,7 +287,7 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
   // default source
   let defaultSource: { id: number | null; doi: string | null } = { id: null, doi: null };
   if (options.sourceId != null) {
-    if (!sourceExistsRaw(db, options.sourceId)) {
+    if (!(await sourceExists(db, options.sourceId))) {
       table.close();
       return fail("invalid_input", `Source ${options.sourceId} does not exist; nothing was read.`, { fieldErrors: { sourceId: [`Source ${options.sourceId} does not exist.`] } });
     }
@@ -311,7 +298,7 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
       table.close();
       return fail("invalid_input", `"${options.sourceDoi}" is not a DOI (it should look like 10.5555/abc).`, { fieldErrors: { sourceDoi: ["Not a DOI."] } });
     }
-    defaultSource = { id: sourceIdsByDoiRaw(db, [doi]).get(doi) ?? null, doi };
+    defaultSource = { id: (await sourceIdsByDoi(db, [doi])).get(doi) ?? null, doi };
   }
 
   const mapping = resolveMapping(head.headers, options.mapping, { requireSource: defaultSource.id === null && defaultSource.doi === null });
@@ -325,33 +312,19 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
   let validRows = 0;
   let row = 0;
   let headerChecked = false;
-  let writing = writer !== null;
+  let collected: Collected | null = collect ? { rows: [], bySourceKey: new Map() } : null;
   const firstRows: string[][] = [];
   const location = input.kind === "pdf_table" ? pdfLocation(input) : null;
-  const pending: PreparedBulkRow[] = [];
-  const materials = new Map<string, number>();
-  let quality: ReturnType<typeof qualityScorer> | undefined;
 
-  const flush = () => {
-    if (!writer || !pending.length) return;
-    quality ??= qualityScorer(writer.db);
-    const ids = writePreparedRows(writer.db, pending, writer.actor.id, writer.at, { importFile: writer.fileName, importRunId: writer.runId, materials, quality });
-    pending.forEach((p, i) => writer.ids.push({ row: p.row, id: ids[i]! }));
-    pending.length = 0;
-  };
-
-  const sourceFor = (key: string): ImportSourceUse => {
-    let use = sources.get(key);
-    if (!use) {
-      const doi = key.startsWith("doi:") ? key.slice(4) : null;
-      const url = key.startsWith("url:") ? key.slice(4) : null;
-      use = { key, doi, url, sourceId: doi ? (sourceIdsByDoiRaw(db, [doi]).get(doi) ?? null) : sourceIdByUrlRaw(db, url!), rows: 0 };
-      sources.set(key, use);
-    }
+  const lookUpSource = async (key: string): Promise<ImportSourceUse> => {
+    const doi = key.startsWith("doi:") ? key.slice(4) : null;
+    const url = key.startsWith("url:") ? key.slice(4) : null;
+    const use: ImportSourceUse = { key, doi, url, sourceId: doi ? ((await sourceIdsByDoi(db, [doi])).get(doi) ?? null) : await sourceIdByUrl(db, url!), rows: 0 };
+    sources.set(key, use);
     return use;
   };
 
-  const handle = (cells: string[]) => {
+  const handle = async (cells: string[]) => {
     row++;
     const mapped = mapImportRow(cells, mapping.columns, mapping.defaults, row);
     if (mapped.blank) {
@@ -364,7 +337,8 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
     let sourceId: number | null = key ? null : defaultSource.id;
     let pendingLabel: string | null = null;
     if (key) {
-      const use = sourceFor(key);
+      // a database look-up only for a source key not seen before in this table
+      const use = sources.get(key) ?? (await lookUpSource(key));
       use.rows++;
       sourceId = use.sourceId;
       if (sourceId === null) pendingLabel = use.doi ?? use.url;
@@ -384,17 +358,17 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
     const rowHasError = rowProblems.some((p) => p.severity === "error");
     if (rowHasError) {
       errorRows.add(row);
-      if (writer && !writer.excludeErrors) writing = false;
+      // nothing will be written: the rows kept so far can go
+      if (!options.excludeErrors) collected = null;
     } else if (checked.ok && (sourceId !== null || pendingLabel !== null)) {
       validRows++;
-      if (writing && writer) {
+      if (collected) {
+        collected.rows.push(checked.prepared);
         if (sourceId === null && key) {
-          const use = sources.get(key)!;
-          use.sourceId = createPlaceholderSource(writer, use);
-          checked.prepared.write.sourceId = use.sourceId;
+          const waiting = collected.bySourceKey.get(key);
+          if (waiting) waiting.push(checked.prepared);
+          else collected.bySourceKey.set(key, [checked.prepared]);
         }
-        pending.push(checked.prepared);
-        if (pending.length >= WRITE_CHUNK) flush();
       }
     }
     if (rowProblems.length) problems.push(...rowProblems);
@@ -416,6 +390,12 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
     row++;
     if (sample.length < sampleSize) sample.push({ row, cells, values: {}, outcome: "unknown", sourceLabel: null, problems: [] });
   };
+  const handleFirstRows = async () => {
+    for (const c of firstRows) {
+      if (hasMappingErrors(mapping.issues)) sampleOnly(c);
+      else await handle(c);
+    }
+  };
 
   try {
     for await (const raw of table.rows) {
@@ -425,7 +405,7 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
         if (firstRows.length < 5) continue;
         checkHeader(head, firstRows);
         headerChecked = true;
-        for (const c of firstRows) (hasMappingErrors(mapping.issues) ? sampleOnly : handle)(c);
+        await handleFirstRows();
         continue;
       }
       if (hasMappingErrors(mapping.issues)) {
@@ -434,9 +414,9 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
         sampleOnly(cells);
         continue;
       }
-      handle(cells);
+      await handle(cells);
       if (row % PROGRESS_EVERY === 0) {
-        options.onProgress?.({ phase: "reading", rowsRead: row, rowsWritten: writer?.ids.length ?? 0, rowsTotal: null });
+        options.onProgress?.({ phase: "reading", rowsRead: row, rowsWritten: 0, rowsTotal: null });
         await yieldToLoop();
         if (cancelled(options.signal)) return "cancelled";
       }
@@ -444,9 +424,8 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
     if (!headerChecked) {
       if (!firstRows.length && head.headers.every((h) => h === "")) throw new TableError("The table is empty.", "file", 0);
       checkHeader(head, firstRows);
-      for (const c of firstRows) (hasMappingErrors(mapping.issues) ? sampleOnly : handle)(c);
+      await handleFirstRows();
     }
-    if (writing) flush();
   } catch (error) {
     if (error instanceof TableError) return fail("invalid_input", error.message, { rowErrors: [{ row: error.row ?? row + 1, field: error.field, message: error.message }] });
     throw error;
@@ -459,6 +438,7 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqliteData
   return ok({
     analysis: { head, mapping, rowCount, blankRows, problems, errorRows: errorRows.size, sample, sources: [...sources.values()] },
     validRows,
+    collected,
   });
 }
 
@@ -479,7 +459,7 @@ const toRowError = (p: RowProblem) => ({ row: p.row, field: p.field, message: p.
  */
 export async function previewImport(input: TableInput, options: ImportOptions): Promise<Result<ImportAnalysis>> {
   return guard(async () => {
-    const r = await analyse(input, options, sqlite(), null);
+    const r = await analyse(input, options, sql(), false);
     if (r === "cancelled") return fail("invalid_input", "The preview was cancelled.");
     if (!r.ok) return r;
     return ok(r.data.analysis);
@@ -488,64 +468,130 @@ export async function previewImport(input: TableInput, options: ImportOptions): 
 
 const iso = (d: Date) => d.toISOString().replace("Z", "+00:00");
 
+/** Thrown inside the writing transaction when the import is cancelled: it rolls everything back. */
+class ImportCancelled extends Error {
+  constructor() {
+    super("The import was cancelled.");
+  }
+}
+
+interface ImportWrite {
+  fileName: string;
+  fileSha256: string | null;
+  format: TableInput["kind"];
+  analysis: ImportAnalysis;
+  collected: Collected;
+  excludedRows: number[];
+  mapping: unknown;
+  sourceId: number | null;
+  actor: Actor;
+  at: Date;
+  options: ImportOptions;
+}
+
+interface ImportWritten {
+  runId: number;
+  ids: { row: number; id: number }[];
+  createdSources: { doi: string | null; url: string | null; id: number }[];
+}
+
 /**
- * Imports a table: reads, checks and writes every row in one transaction, streaming (only a chunk
- * of rows is held at a time), with an ImportRun, the sources the DOI column names that are not yet
- * in the collection, and one audit event. A row with errors makes the whole import roll back
+ * Everything an import writes, in the transaction `tx`: the run, the sources the table names that
+ * are not in the collection, the records, and one audit event. Only database work: on PostgreSQL
+ * this runs again after a serialization failure, so it keeps nothing from an earlier attempt (the
+ * prepared rows are completed afresh each time).
+ */
+async function writeImport(tx: SqlExecutor, w: ImportWrite): Promise<ImportWritten> {
+  const { actor, analysis, collected, options } = w;
+  const atText = iso(w.at);
+  const runId = await insertImportRun(tx, {
+    fileName: w.fileName, fileSha256: w.fileSha256, format: w.format, sheet: analysis.head.sheet, mapping: w.mapping, sourceId: w.sourceId,
+    rowCount: analysis.rowCount, importedCount: 0, excludedCount: 0, status: "committed", createdById: actor.id, at: w.at,
+  });
+
+  // Sources the collection did not hold when the table was read: another writer may have added
+  // one since, else it is created here, known only by its DOI or address.
+  const createdSources: ImportWritten["createdSources"] = [];
+  const keys = [...collected.bySourceKey.keys()];
+  const byDoi = await sourceIdsByDoi(tx, keys.filter((k) => k.startsWith("doi:")).map((k) => k.slice(4)));
+  const sourceIds = new Set<number>();
+  for (const key of keys) {
+    const doi = key.startsWith("doi:") ? key.slice(4) : null;
+    const url = key.startsWith("url:") ? key.slice(4) : null;
+    let id = doi ? (byDoi.get(doi) ?? null) : await sourceIdByUrl(tx, url!);
+    if (id === null) {
+      const title = doi ? `Source with DOI ${doi}` : `Source at ${url}`.slice(0, 500);
+      id = await insertPlaceholderSource(
+        tx,
+        { kind: "journal_article", title, titleKey: titleKey(title), doi, url, notes: `Created by importing ${w.fileName} (import run ${runId}), known only by its ${doi ? "DOI" : "web address"}: complete the title, authors, year and kind.` },
+        actor.id,
+        w.at,
+      );
+      await appendAuditEvent(tx, { actorId: actor.id, actorName: actor.name, action: "create", entityType: "source", entityId: id, after: { doi, url, title, createdBy: `import run ${runId}` }, at: atText });
+      createdSources.push({ doi, url, id });
+    }
+    for (const p of collected.bySourceKey.get(key)!) p.write.sourceId = id;
+  }
+  for (const p of collected.rows) sourceIds.add(p.write.sourceId);
+
+  const quality = await qualityScorerFor(tx, sourceIds);
+  const writeOptions = { importFile: w.fileName, importRunId: runId, materials: new Map<string, number>(), quality };
+  const stamp = { actorId: actor.id, at: w.at };
+  const ids: ImportWritten["ids"] = [];
+  const total = collected.rows.length;
+  for (let start = 0; start < total; start += WRITE_CHUNK) {
+    const chunk = collected.rows.slice(start, start + WRITE_CHUNK);
+    const chunkIds = await writePreparedRows(tx, chunk, stamp, writeOptions);
+    for (let i = 0; i < chunk.length; i++) ids.push({ row: chunk[i]!.row, id: chunkIds[i]! });
+    options.onProgress?.({ phase: "writing", rowsRead: analysis.rowCount, rowsWritten: ids.length, rowsTotal: total });
+    // No turn of the event loop is given here on purpose. On PostgreSQL every statement already
+    // waits on the server, and a cancel arrives meanwhile; on SQLite the transaction holds the
+    // process's raw connection, and a request served now that still writes on that connection
+    // directly (not through sql()) would write inside this transaction.
+    if (cancelled(options.signal)) throw new ImportCancelled();
+  }
+
+  const imported = ids.length;
+  await finishImportRun(tx, runId, { rowCount: analysis.rowCount, importedCount: imported, excludedCount: analysis.errorRows });
+  await appendAuditEvent(tx, {
+    actorId: actor.id, actorName: actor.name, action: "import", entityType: "import_run", entityId: runId,
+    after: { fileName: w.fileName, format: w.format, sheet: analysis.head.sheet, imported, excludedRows: w.excludedRows, firstId: ids[0]?.id ?? null, lastId: ids[imported - 1]?.id ?? null, createdSources: createdSources.map((s) => s.id) },
+    at: atText,
+  });
+  if (cancelled(options.signal)) throw new ImportCancelled();
+  return { runId, ids, createdSources };
+}
+
+/**
+ * Imports a table: reads and checks every row first (writing nothing), then writes the run, the
+ * sources the DOI column names that are not yet in the collection, the records and one audit
+ * event in one transaction. A row with errors stops the import before anything is written
  * unless `excludeErrors` is set; every problem is still listed. Progress is reported as rows are
- * read and written; an aborted `signal` rolls back, so a cancelled import leaves no records, only a
- * cancelled run. A dry run checks everything and writes nothing.
+ * read and as they are written; an aborted `signal` stops the reading or rolls the writing back,
+ * so a cancelled import leaves no records, only a cancelled run. A dry run checks everything and
+ * writes nothing.
  */
 export async function commitImport(input: TableInput, options: ImportOptions, actor: Actor): Promise<Result<ImportCommit>> {
   return guard(async () => {
     requireRole(actor, "contributor");
-    const { filePath } = resolveDatabaseLocation();
-    // A connection of its own: its transaction spans many turns of the event loop, and other
-    // requests on the shared connection must not run inside it.
-    const db = openSqlite(filePath);
-    try {
-      return await commitOn(db, input, options, actor);
-    } finally {
-      db.close();
-    }
-  });
-}
+    const now = options.now ?? (() => new Date());
+    const fileName = input.fileName ?? (input.kind === "paste" ? "pasted table" : "table");
+    const fileSha256 = "fileSha256" in input ? (input.fileSha256 ?? null) : null;
+    const at = now();
+    const db = sql();
+    const cancelledResult = async (): Promise<Result<ImportCommit>> => {
+      const id = await insertImportRun(db, {
+        fileName, fileSha256, format: input.kind, sheet: input.kind === "xlsx" ? (input.sheet ?? null) : null, mapping: options.mapping ?? {},
+        sourceId: options.sourceId ?? null, rowCount: 0, importedCount: 0, excludedCount: 0, status: "cancelled", createdById: actor.id, at,
+      });
+      options.onProgress?.({ phase: "done", rowsRead: 0, rowsWritten: 0, rowsTotal: 0 });
+      return ok({ status: "cancelled", importRunId: id, imported: 0, excluded: 0, errors: [], warnings: [], records: [], createdSources: [], unmapped: [], mappingIssues: [], checks: null });
+    };
 
-async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOptions, actor: Actor): Promise<Result<ImportCommit>> {
-  const now = options.now ?? (() => new Date());
-  const fileName = input.fileName ?? (input.kind === "paste" ? "pasted table" : "table");
-  const fileSha256 = "fileSha256" in input ? (input.fileSha256 ?? null) : null;
-  const at = iso(now());
-  const run = (status: "committed" | "cancelled", analysis: ImportAnalysis | null) =>
-    insertImportRunRaw(db, {
-      fileName, fileSha256, format: input.kind, sheet: analysis?.head.sheet ?? (input.kind === "xlsx" ? (input.sheet ?? null) : null), mapping: analysis?.mapping.mapping ?? options.mapping ?? {},
-      sourceId: options.sourceId ?? null, rowCount: analysis?.rowCount ?? 0, importedCount: 0, excludedCount: 0, status, createdById: actor.id, at,
-    });
-  const cancelledResult = (): Result<ImportCommit> => {
-    const id = run("cancelled", null);
-    options.onProgress?.({ phase: "done", rowsRead: 0, rowsWritten: 0, rowsTotal: 0 });
-    return ok({ status: "cancelled", importRunId: id, imported: 0, excluded: 0, errors: [], warnings: [], records: [], createdSources: [], unmapped: [], mappingIssues: [], checks: null });
-  };
-
-  let writer: Writer | null = null;
-  if (!options.dryRun) {
-    db.exec("BEGIN IMMEDIATE");
-    writer = { db, runId: 0, actor, at, fileName, excludeErrors: options.excludeErrors === true, ids: [], createdSources: [] };
-    writer.runId = run("committed", null);
-  }
-  let open = writer !== null;
-  const rollback = () => {
-    if (open) db.exec("ROLLBACK");
-    open = false;
-  };
-  try {
-    const analysed = await analyse(input, options, db, writer);
-    if (analysed === "cancelled") {
-      rollback();
-      return cancelledResult();
-    }
+    const analysed = await analyse(input, options, db, !options.dryRun);
+    if (analysed === "cancelled") return cancelledResult();
     if (!analysed.ok) return analysed;
-    const { analysis, validRows } = analysed.data;
+    const { analysis, validRows, collected } = analysed.data;
     const errors = analysis.problems.filter((p) => p.severity === "error").map(toRowError);
     const warnings = analysis.problems.filter((p) => p.severity === "warning").map(toRowError);
     const base = { errors, warnings, unmapped: analysis.mapping.unmapped, mappingIssues: analysis.mapping.issues };
@@ -561,37 +607,38 @@ async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOp
     if (errors.length && !options.excludeErrors) {
       return fail("invalid_input", `${analysis.errorRows} of ${analysis.rowCount} rows have problems; nothing was written. Fix them, or choose to leave those rows out.`, { rowErrors: errors, ...base, rowCount: analysis.rowCount });
     }
-    if (!writer) {
+    if (options.dryRun || !collected) {
       return ok({ status: "dry_run", importRunId: null, imported: validRows, excluded: analysis.errorRows, ...base, records: [], createdSources: [], checks: null });
     }
-    const imported = writer.ids.length;
-    finishImportRunRaw(db, writer.runId, { rowCount: analysis.rowCount, importedCount: imported, excludedCount: analysis.errorRows });
-    appendAuditRaw(db, {
-      actorId: actor.id, actorName: actor.name, action: "import", entityType: "import_run", entityId: writer.runId,
-      after: { fileName, format: input.kind, sheet: analysis.head.sheet, imported, excludedRows: [...new Set(errors.map((e) => e.row))], firstId: writer.ids[0]?.id ?? null, lastId: writer.ids[imported - 1]?.id ?? null, createdSources: writer.createdSources.map((s) => s.id) },
-      at,
-    });
-    if (cancelled(options.signal)) {
-      rollback();
-      return cancelledResult();
+
+    options.onProgress?.({ phase: "writing", rowsRead: analysis.rowCount, rowsWritten: 0, rowsTotal: collected.rows.length });
+    let written: ImportWritten;
+    try {
+      written = await db.transaction((tx) =>
+        writeImport(tx, {
+          fileName, fileSha256, format: input.kind, analysis, collected, excludedRows: [...new Set(errors.map((e) => e.row))], mapping: analysis.mapping.mapping,
+          sourceId: options.sourceId ?? null, actor, at, options,
+        }),
+      );
+    } catch (error) {
+      if (error instanceof ImportCancelled) return cancelledResult();
+      throw error;
     }
-    db.exec("COMMIT");
-    open = false;
-    // The check run below uses the shared connection: this one's page cache can go back now.
-    db.pragma("shrink_memory");
+    // The written rows can go before the checks load the records they need (peak memory).
+    collected.rows.length = 0;
+    collected.bySourceKey.clear();
+    const imported = written.ids.length;
     let checks: ImportCommit["checks"] = null;
     if (!options.deferChecks && imported > 0) {
       options.onProgress?.({ phase: "checking", rowsRead: analysis.rowCount, rowsWritten: imported, rowsTotal: imported });
       await yieldToLoop();
       // the records are committed; a failure here is logged and left to `meltledger check`
-      const summary = await checksAfterSave(writer.ids.map((r) => r.id));
+      const summary = await checksAfterSave(written.ids.map((r) => r.id));
       if (summary) checks = { opened: summary.opened + summary.reopened, openByCode: summary.openByCode, ms: summary.ms };
     }
     options.onProgress?.({ phase: "done", rowsRead: analysis.rowCount, rowsWritten: imported, rowsTotal: imported });
-    return ok({ status: "committed", importRunId: writer.runId, imported, excluded: analysis.errorRows, ...base, records: writer.ids, createdSources: writer.createdSources, checks });
-  } finally {
-    rollback();
-  }
+    return ok({ status: "committed", importRunId: written.runId, imported, excluded: analysis.errorRows, ...base, records: written.ids, createdSources: written.createdSources, checks });
+  });
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -613,7 +660,7 @@ export async function saveImportPreset(input: { name: string; sourceId?: number 
     for (const rule of Object.values(mapping.data.columns)) {
       if (rule?.field && !(IMPORT_FIELDS as readonly string[]).includes(rule.field)) return fail("invalid_input", `"${rule.field}" is not a field of a build record.`);
     }
-    if (meta.data.sourceId !== null && !sourceExistsRaw(sqlite(), meta.data.sourceId)) return fail("not_found", `Source ${meta.data.sourceId} does not exist.`);
+    if (meta.data.sourceId !== null && !(await sourceExists(sql(), meta.data.sourceId))) return fail("not_found", `Source ${meta.data.sourceId} does not exist.`);
     return ok(await saveMappingPreset(meta.data.name, meta.data.sourceId, mapping.data));
   });
 }

@@ -1,11 +1,12 @@
-import { appendAuditRaw } from "../db/audit-raw";
-import { sqlite, type SqliteDatabase } from "../db/connection";
-import { findOrCreateMaterialRaw, type MaterialSpec } from "../db/materials";
-import { insertRecordsRaw, type RecordWrite } from "../db/records";
+import { appendAuditEvent } from "../db/audit-raw";
+import { missingSourceIds } from "../db/imports";
+import { materialIdFor, type MaterialSpec } from "../db/materials";
+import { insertRecords, type RecordStamp, type RecordWrite } from "../db/records";
+import { sql, type SqlExecutor } from "../db/sql";
 import { recordInputSchema } from "../schemas/record";
 import { parseRecordInputFast } from "../schemas/record-fast";
 import { requireRole, type Actor } from "./actor";
-import { checksAfterSave, qualityScorer } from "./checks";
+import { checksAfterSave, qualityScorerFor } from "./checks";
 import { prepareRecord } from "./record-write";
 import { fail, guard, ok, type Result } from "./result";
 
@@ -76,29 +77,35 @@ export function prepareBulkRow(input: unknown, row: number): { ok: true; prepare
 export interface WritePreparedOptions {
   importFile?: string | null;
   importRunId?: number | null;
-  /** Shared across calls of one batch so each material is looked up once. */
+  /** Shared across calls of one transaction so each material is looked up once (fingerprint -> id). */
   materials: Map<string, number>;
-  /** Quality score of each row as the checks would compute it (see qualityScorer); null when absent. */
-  quality?: (w: Omit<RecordWrite, "materialId">) => number;
+  /** Quality score of each row as the checks would compute it (qualityScorerFor); null when absent. */
+  quality?: QualityScorer;
 }
 
+export type QualityScorer = (w: Omit<RecordWrite, "materialId">) => number;
+
 /**
- * Writes prepared rows on the raw connection; the caller holds the transaction and has checked
- * that the sources exist. With an import file, each record remembers its row. Returns ids in order.
+ * Writes prepared rows inside the caller's transaction `db`; the caller has checked that the
+ * sources exist. With an import file, each record remembers its row. Returns ids in row order.
  */
-export function writePreparedRows(db: SqliteDatabase, rows: readonly PreparedBulkRow[], actorId: number | null, at: string, options: WritePreparedOptions): number[] {
+export async function writePreparedRows(db: SqlExecutor, rows: readonly PreparedBulkRow[], stamp: RecordStamp | ((index: number) => RecordStamp), options: WritePreparedOptions): Promise<number[]> {
   // The prepared objects are completed in place rather than copied: a spread copy of a record's
-  // two dozen fields cost more than everything else in preparing it.
-  const full: RecordWrite[] = rows.map((w) => {
+  // two dozen fields cost more than everything else in preparing it. Every field is set again on
+  // each call, so a transaction run a second time (PostgreSQL, after a serialization failure)
+  // writes the same.
+  const full: RecordWrite[] = new Array(rows.length);
+  for (let i = 0; i < rows.length; i++) {
+    const w = rows[i]!;
     const r = w.write as RecordWrite;
-    r.materialId = findOrCreateMaterialRaw(db, w.material, options.materials);
+    r.materialId = await materialIdFor(db, w.material, options.materials);
     r.importFile = options.importFile ?? null;
     r.importRunId = options.importRunId ?? null;
     r.importRow = options.importFile ? w.row : null;
     if (options.quality) r.qualityScore = options.quality(r);
-    return r;
-  });
-  return insertRecordsRaw(db, full, actorId, at);
+    full[i] = r;
+  }
+  return insertRecords(db, full, stamp);
 }
 
 /**
@@ -120,35 +127,32 @@ export async function insertRecordsBulk(inputs: readonly unknown[], actor: Actor
       const rowsWithErrors = new Set(errors.map((e) => e.row)).size;
       return fail("invalid_input", `${rowsWithErrors} of ${inputs.length} rows have problems; nothing was written. Fix them, or choose to leave those rows out.`, { rowErrors: errors });
     }
-    const db = sqlite();
     const now = options.now ?? (() => new Date());
-    const result = db.transaction((): BulkResult | { missingSource: number } => {
-      const sourceIds = new Set(writes.map((w) => w.write.sourceId));
-      for (const id of sourceIds) {
-        if (!db.prepare(`SELECT 1 FROM Source WHERE id = ?`).get(id)) return { missingSource: id };
-      }
-      const materials = new Map<string, number>();
-      const writeOptions = { importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, materials, quality: qualityScorer(db) };
-      let ids: number[];
-      if (options.rowMeta) {
-        ids = writes.map((w) => {
-          const meta = options.rowMeta!(w.row - 1);
-          return writePreparedRows(db, [w], meta.actorId, iso(meta.at), writeOptions)[0]!;
-        });
-      } else {
-        ids = writePreparedRows(db, writes, actor.id, iso(now()), writeOptions);
-      }
-      appendAuditRaw(db, {
+    const at = now();
+    const sourceIds = new Set(writes.map((w) => w.write.sourceId));
+    const stamp = options.rowMeta
+      ? (i: number) => {
+          const meta = options.rowMeta!(writes[i]!.row - 1);
+          return { actorId: meta.actorId, at: meta.at };
+        }
+      : { actorId: actor.id, at };
+    // Only database work inside: on PostgreSQL the body may run again after a serialization failure.
+    const result = await sql().transaction(async (tx): Promise<BulkResult | { missingSource: number }> => {
+      const missing = await missingSourceIds(tx, sourceIds);
+      if (missing.length) return { missingSource: missing[0]! };
+      const writeOptions = { importFile: options.importFile ?? null, importRunId: options.importRunId ?? null, materials: new Map<string, number>(), quality: await qualityScorerFor(tx, sourceIds) };
+      const ids = await writePreparedRows(tx, writes, stamp, writeOptions);
+      await appendAuditEvent(tx, {
         actorId: actor.id,
         actorName: actor.name,
         action: options.auditAction ?? "bulk_create",
         entityType: "record_batch",
         entityId: ids.length ? `${ids[0]}-${ids[ids.length - 1]}` : "none",
         after: { count: ids.length, firstId: ids[0] ?? null, lastId: ids[ids.length - 1] ?? null, importFile: options.importFile ?? null, excludedRows: errors.length ? [...new Set(errors.map((e) => e.row))] : [] },
-        at: iso(now()),
+        at: iso(at),
       });
       return { ids, rows: writes.map((w) => w.row), excluded: errors };
-    })();
+    });
     if ("missingSource" in result) {
       return fail("invalid_input", `Source ${result.missingSource} does not exist; nothing was written.`, { fieldErrors: { sourceId: [`Source ${result.missingSource} does not exist.`] } });
     }

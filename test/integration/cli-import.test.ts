@@ -1,17 +1,14 @@
-// `meltledger import` as a user runs it: a real process on a temporary database.
+// `meltledger import` as a user runs it: a real process on a temporary database, SQLite or PostgreSQL.
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { openSqlite } from "@/lib/db/connection";
-import { cliFor } from "../support/cli";
-import { useTempDatabase } from "../support/temp-db";
+import { afterAll, beforeAll, expect, test } from "vitest";
+import { sql } from "@/lib/db/sql";
+import { cliFor, type CliRun } from "../support/cli";
+import { describeEachEngine } from "../support/engines";
 
-const tmp = useTempDatabase("cli-import");
-const cli = cliFor(tmp.filePath);
 const DATASET = path.resolve(import.meta.dirname, "../../../shared/datasets/lpbf-relative-density-2025/dataset.xlsx");
 const work = mkdtempSync(path.join(os.tmpdir(), "meltledger-cli-import-"));
-
 
 function file(name: string, text: string): string {
   const p = path.join(work, name);
@@ -19,33 +16,21 @@ function file(name: string, text: string): string {
   return p;
 }
 
-async function recordCount(): Promise<number> {
-  const db = openSqlite(tmp.filePath, { readonly: true });
-  try {
-    return (db.prepare(`SELECT COUNT(*) AS n FROM BuildRecord`).get() as { n: number }).n;
-  } finally {
-    db.close();
-  }
-}
+// what the command wrote, read in this process from the same database
+const recordCount = async () => (await sql().get<{ n: number }>(`SELECT COUNT(*) AS n FROM "BuildRecord"`))!.n;
+const storedFileCount = async () => (await sql().get<{ n: number }>(`SELECT COUNT(*) AS n FROM "StoredFile"`))!.n;
 
-async function storedFileCount(): Promise<number> {
-  const db = openSqlite(tmp.filePath, { readonly: true });
-  try {
-    return (db.prepare(`SELECT COUNT(*) AS n FROM StoredFile`).get() as { n: number }).n;
-  } finally {
-    db.close();
-  }
-}
+afterAll(() => rmSync(work, { recursive: true, force: true }));
 
-beforeAll(async () => {
-  await cli("db", "migrate");
-});
-afterAll(async () => {
-  await tmp.cleanup();
-  rmSync(work, { recursive: true, force: true });
-});
+describeEachEngine("meltledger import", (current) => {
+  let cli: (...args: string[]) => Promise<CliRun>;
+  beforeAll(async () => {
+    const at = current();
+    cli = cliFor(at.engine === "sqlite" ? at.url.replace(/^file:/, "") : at.url);
+    // already migrated: the command finds nothing to do on either engine
+    expect((await cli("db", "migrate")).code).toBe(0);
+  });
 
-describe("meltledger import", () => {
   test("the open dataset's workbook: every row, with its row number, sources from the DOI column", async () => {
     const r = await cli("import", DATASET, "--sheet", "data", "--json");
     expect(r.code).toBe(0);

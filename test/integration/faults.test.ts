@@ -75,9 +75,9 @@ function importAndKill(dbFile: string, when: (p: { phase: string; rowsWritten: n
 
 describe("a process killed during a large import", () => {
   test.each([
-    ["after the first rows are written", (p: { phase: string; rowsWritten: number }) => p.phase === "reading" && p.rowsWritten >= 500],
-    ["half-way through", (p: { phase: string; rowsWritten: number }) => p.phase === "reading" && p.rowsWritten >= ROWS / 2],
-    ["as the last rows are written", (p: { phase: string; rowsWritten: number }) => p.phase === "reading" && p.rowsWritten >= ROWS - 1000],
+    ["after the first rows are written", (p: { phase: string; rowsWritten: number }) => p.phase === "writing" && p.rowsWritten >= 500],
+    ["half-way through", (p: { phase: string; rowsWritten: number }) => p.phase === "writing" && p.rowsWritten >= ROWS / 2],
+    ["as the last rows are written", (p: { phase: string; rowsWritten: number }) => p.phase === "writing" && p.rowsWritten >= ROWS - 2000],
   ])("%s leaves none of it, and the database passes the integrity check", async (_when, when) => {
     const dbFile = path.join(tmp.dir, `kill-${Math.random().toString(36).slice(2)}.db`);
     const r = await importAndKill(dbFile, when);

@@ -1,46 +1,34 @@
 // Records from a figure: a PDF with a power–speed plot (linear power axis, log speed axis, red
 // squares for keyhole and blue circles for dense builds) is rendered by pdf.js in Node, the markers
 // are found from one clicked marker per colour, the axes are calibrated from their end ticks, and
-// the points are committed through the bulk insert; bad readings write nothing.
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { sqlite } from "@/lib/db/connection";
-import { migrate } from "@/lib/db/migrate";
+// the points are committed through the bulk insert; bad readings write nothing. On SQLite and on
+// PostgreSQL.
+import { beforeAll, describe, expect, test } from "vitest";
+import { sql } from "@/lib/db/sql";
 import { detectMarkers, type RgbaImage } from "@/lib/domain/marker-detection";
 import { localActor, type Actor } from "@/lib/server/actor";
 import { commitFigureReading } from "@/lib/server/figures";
 import { createSource } from "@/lib/server/sources";
 import type { FigureReadingInput } from "@/lib/schemas/figure";
+import { describeEachEngine } from "../support/engines";
 import { sourceInput } from "../support/fixtures";
 import { inventedFigurePdf } from "../support/pdf";
 import { renderPdfPage } from "../support/pdf-render";
-import { useTempDatabase } from "../support/temp-db";
-
-const tmp = useTempDatabase("figures");
 const figure = inventedFigurePdf();
 const SCALE = 2;
-let actor: Actor;
-let sourceId: number;
 let image: RgbaImage;
 let toPixel: (xPt: number, yPt: number) => { x: number; y: number };
 
-const count = (sql: string, ...args: unknown[]) => (sqlite().prepare(sql).get(...args) as { n: number }).n;
+const count = async (text: string) => (await sql().get<{ n: number }>(text))!.n;
+const RECORDS = `SELECT COUNT(*) AS n FROM "BuildRecord"`;
 
 beforeAll(async () => {
-  migrate(sqlite());
-  actor = await localActor();
-  const s = await createSource(sourceInput({ doi: "10.5555/figure.pdf.0001", title: "Process map of 316L in an invented study" }), actor);
-  if (!s.ok) throw new Error(s.error.message);
-  sourceId = s.data.id;
-
   const rendered = await renderPdfPage(figure.pdf, figure.page, SCALE);
   image = { data: rendered.data, width: rendered.width, height: rendered.height };
   toPixel = rendered.toPixel;
 });
-afterAll(async () => {
-  await tmp.cleanup();
-});
 
-function reading(points: FigureReadingInput["points"], overrides: Partial<FigureReadingInput> = {}): FigureReadingInput {
+function reading(sourceId: number, points: FigureReadingInput["points"], overrides: Partial<FigureReadingInput> = {}): FigureReadingInput {
   const [x0, x1] = figure.ticks.x;
   const [y0, y1] = figure.ticks.y;
   return {
@@ -75,69 +63,81 @@ function detectedPoints(): FigureReadingInput["points"] {
   return out;
 }
 
-describe("reading a rendered figure", () => {
-  test("every plotted point is found from one clicked marker per colour, within 1 % of each axis range, with its outcome", async () => {
-    const points = detectedPoints();
-    expect(points).toHaveLength(figure.points.length);
-    const before = count("SELECT COUNT(*) AS n FROM BuildRecord");
-    const r = await commitFigureReading(reading(points), actor);
-    expect(r.ok).toBe(true);
-    if (!r.ok) return;
-    expect(r.data.ids).toHaveLength(points.length);
-    expect(count("SELECT COUNT(*) AS n FROM BuildRecord") - before).toBe(points.length);
-    const rows = sqlite()
-      .prepare(`SELECT laserPowerW, scanSpeedMmPerS, hatchSpacingUm, layerThicknessUm, outcome, locationPage, locationLabel FROM BuildRecord WHERE id IN (${r.data.ids.join(",")})`)
-      .all() as { laserPowerW: number; scanSpeedMmPerS: number; hatchSpacingUm: number; layerThicknessUm: number; outcome: string; locationPage: number; locationLabel: string }[];
-    const matched = new Set<number>();
-    for (const truth of figure.points) {
-      // nearest record in axis-range units: linear power over 300 W, log speed over 2 decades
-      const errors = rows.map((row) => ({ row, dp: Math.abs(row.laserPowerW - truth.laserPowerW) / 300, dv: Math.abs(Math.log10(row.scanSpeedMmPerS) - Math.log10(truth.scanSpeedMmPerS)) / 2 }));
-      errors.sort((a, b) => Math.max(a.dp, a.dv) - Math.max(b.dp, b.dv));
-      const best = errors[0]!;
-      expect(best.dp).toBeLessThanOrEqual(0.01);
-      expect(best.dv).toBeLessThanOrEqual(0.01);
-      expect(best.row.outcome).toBe(truth.outcome);
-      matched.add(rows.indexOf(best.row));
-    }
-    expect(matched.size).toBe(figure.points.length);
-    for (const row of rows) {
-      expect(row.locationPage).toBe(2);
-      expect(row.locationLabel).toMatch(/^Fig\. 3 · px \(\d+, \d+\) · ±[\d.]+ W, ±[\d.]+ mm\/s$/);
-      expect(row.hatchSpacingUm).toBe(100);
-      expect(row.layerThicknessUm).toBe(30);
-    }
+describeEachEngine("records from figures", () => {
+  let actor: Actor;
+  let sourceId: number;
+  beforeAll(async () => {
+    actor = await localActor();
+    const s = await createSource(sourceInput({ doi: "10.5555/figure.pdf.0001", title: "Process map of 316L in an invented study" }), actor);
+    if (!s.ok) throw new Error(s.error.message);
+    sourceId = s.data.id;
   });
 
-  test("the committed records ran through the checks like any record", async () => {
-    // every record gets a quality score from the checks after the bulk write
-    expect(count(`SELECT COUNT(*) AS n FROM BuildRecord WHERE locationLabel LIKE 'Fig. 3 ·%' AND qualityScore IS NULL`)).toBe(0);
+  describe("reading a rendered figure", () => {
+    test("every plotted point is found from one clicked marker per colour, within 1 % of each axis range, with its outcome", async () => {
+      const points = detectedPoints();
+      expect(points).toHaveLength(figure.points.length);
+      const before = await count(RECORDS);
+      const r = await commitFigureReading(reading(sourceId, points), actor);
+      expect(r.ok).toBe(true);
+      if (!r.ok) return;
+      expect(r.data.ids).toHaveLength(points.length);
+      expect(await count(RECORDS) - before).toBe(points.length);
+      const rows = await sql().all<{ laserPowerW: number; scanSpeedMmPerS: number; hatchSpacingUm: number; layerThicknessUm: number; outcome: string; locationPage: number; locationLabel: string }>(
+        `SELECT "laserPowerW", "scanSpeedMmPerS", "hatchSpacingUm", "layerThicknessUm", "outcome", "locationPage", "locationLabel" FROM "BuildRecord" WHERE "id" IN (${r.data.ids.map(() => "?").join(", ")})`,
+        r.data.ids,
+      );
+      const matched = new Set<number>();
+      for (const truth of figure.points) {
+        // nearest record in axis-range units: linear power over 300 W, log speed over 2 decades
+        const errors = rows.map((row) => ({ row, dp: Math.abs(row.laserPowerW - truth.laserPowerW) / 300, dv: Math.abs(Math.log10(row.scanSpeedMmPerS) - Math.log10(truth.scanSpeedMmPerS)) / 2 }));
+        errors.sort((a, b) => Math.max(a.dp, a.dv) - Math.max(b.dp, b.dv));
+        const best = errors[0]!;
+        expect(best.dp).toBeLessThanOrEqual(0.01);
+        expect(best.dv).toBeLessThanOrEqual(0.01);
+        expect(best.row.outcome).toBe(truth.outcome);
+        matched.add(rows.indexOf(best.row));
+      }
+      expect(matched.size).toBe(figure.points.length);
+      for (const row of rows) {
+        expect(row.locationPage).toBe(2);
+        expect(row.locationLabel).toMatch(/^Fig\. 3 · px \(\d+, \d+\) · ±[\d.]+ W, ±[\d.]+ mm\/s$/);
+        expect(row.hatchSpacingUm).toBe(100);
+        expect(row.layerThicknessUm).toBe(30);
+      }
+    });
+
+    test("the committed records ran through the checks like any record", async () => {
+      // every record gets a quality score from the checks after the bulk write
+      expect(await count(`SELECT COUNT(*) AS n FROM "BuildRecord" WHERE "locationLabel" LIKE 'Fig. 3 ·%' AND "qualityScore" IS NULL`)).toBe(0);
+    });
+
+    test("a dry run shows the records and writes nothing", async () => {
+      const before = await count(RECORDS);
+      const r = await commitFigureReading({ ...reading(sourceId, detectedPoints().slice(0, 3)), dryRun: true }, actor);
+      expect(r.ok && r.data.records.length).toBe(3);
+      expect(r.ok && r.data.ids).toEqual([]);
+      expect(await count(RECORDS)).toBe(before);
+    });
   });
 
-  test("a dry run shows the records and writes nothing", async () => {
-    const before = count("SELECT COUNT(*) AS n FROM BuildRecord");
-    const r = await commitFigureReading({ ...reading(detectedPoints().slice(0, 3)), dryRun: true }, actor);
-    expect(r.ok && r.data.records.length).toBe(3);
-    expect(r.ok && r.data.ids).toEqual([]);
-    expect(count("SELECT COUNT(*) AS n FROM BuildRecord")).toBe(before);
-  });
-});
-
-describe("bad readings write nothing and say why", () => {
-  const one = () => detectedPoints().slice(0, 2);
-  test.each([
-    ["axes marked with equal values", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, x: { ...r.axes.x, ticks: [r.axes.x.ticks[0], { ...r.axes.x.ticks[1], value: r.axes.x.ticks[0].value }] as const } } }), /same value/],
-    ["a log axis with a non-positive value", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, y: { ...r.axes.y, ticks: [{ ...r.axes.y.ticks[0], value: 0 }, r.axes.y.ticks[1]] as const } } }), /logarithmic, so both marked values must be greater than 0/],
-    ["a point outside the marked axes", (r: FigureReadingInput) => ({ ...r, points: [...r.points, { pixel: { x: 5, y: 5 }, kind: "red" }] }), /outside the marked/],
-    ["a unit that is not the axis quantity's", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, x: { ...r.axes.x, unit: "mm/s" } } }), /rows? have problems|would not make valid records|points would not/],
-    ["an unknown source", (r: FigureReadingInput) => ({ ...r, sourceId: 99_999 }), /Source 99999 does not exist/],
-  ])("%s", async (_name, change, message) => {
-    const before = count("SELECT COUNT(*) AS n FROM BuildRecord");
-    const r = await commitFigureReading(change(reading(one())), actor);
-    expect(r.ok).toBe(false);
-    if (!r.ok) {
-      expect(r.error.code).toBe("invalid_input");
-      expect(r.error.message).toMatch(message);
-    }
-    expect(count("SELECT COUNT(*) AS n FROM BuildRecord")).toBe(before);
+  describe("bad readings write nothing and say why", () => {
+    const one = () => detectedPoints().slice(0, 2);
+    test.each([
+      ["axes marked with equal values", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, x: { ...r.axes.x, ticks: [r.axes.x.ticks[0], { ...r.axes.x.ticks[1], value: r.axes.x.ticks[0].value }] as const } } }), /same value/],
+      ["a log axis with a non-positive value", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, y: { ...r.axes.y, ticks: [{ ...r.axes.y.ticks[0], value: 0 }, r.axes.y.ticks[1]] as const } } }), /logarithmic, so both marked values must be greater than 0/],
+      ["a point outside the marked axes", (r: FigureReadingInput) => ({ ...r, points: [...r.points, { pixel: { x: 5, y: 5 }, kind: "red" }] }), /outside the marked/],
+      ["a unit that is not the axis quantity's", (r: FigureReadingInput) => ({ ...r, axes: { ...r.axes, x: { ...r.axes.x, unit: "mm/s" } } }), /rows? have problems|would not make valid records|points would not/],
+      ["an unknown source", (r: FigureReadingInput) => ({ ...r, sourceId: 99_999 }), /Source 99999 does not exist/],
+    ])("%s", async (_name, change, message) => {
+      const before = await count(RECORDS);
+      const r = await commitFigureReading(change(reading(sourceId, one())), actor);
+      expect(r.ok).toBe(false);
+      if (!r.ok) {
+        expect(r.error.code).toBe("invalid_input");
+        expect(r.error.message).toMatch(message);
+      }
+      expect(await count(RECORDS)).toBe(before);
+    });
   });
 });

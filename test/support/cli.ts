@@ -12,11 +12,15 @@ export interface CliRun {
   stderr: string;
 }
 
-/** A `cli(...args)` function bound to the SQLite file `databaseFile`; it never throws on a non-zero exit. */
-export function cliFor(databaseFile: string): (...args: string[]) => Promise<CliRun> {
+/**
+ * A `cli(...args)` function bound to the SQLite file `database` (or the database a postgresql://
+ * URL names); it never throws on a non-zero exit.
+ */
+export function cliFor(database: string): (...args: string[]) => Promise<CliRun> {
+  const url = /^postgres(ql)?:\/\//.test(database) ? database : `file:${database}`;
   return async (...args) => {
     try {
-      const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: `file:${databaseFile}` }, maxBuffer: 64 * 1024 * 1024 });
+      const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: url }, maxBuffer: 64 * 1024 * 1024 });
       return { code: 0, stdout, stderr };
     } catch (error) {
       const e = error as CliRun;
