@@ -5,9 +5,9 @@ import { NextResponse, type NextRequest } from "next/server";
 import { gateRequest, requestFactsOf } from "@/lib/server/auth";
 import { httpStatusOf } from "@/lib/server/result";
 
-export function proxy(request: NextRequest) {
+export async function proxy(request: NextRequest) {
   const facts = requestFactsOf(request.headers, { method: request.method, url: request.url });
-  const decision = gateRequest(facts, request.nextUrl.pathname, request.nextUrl.search);
+  const decision = await gateRequest(facts, request.nextUrl.pathname, request.nextUrl.search);
   if (decision.action === "next") return NextResponse.next();
   if (decision.action === "redirect") return NextResponse.redirect(new URL(decision.location, request.url), 303);
   return NextResponse.json({ error: decision.error }, { status: httpStatusOf(decision.error.code) });

@@ -1,10 +1,8 @@
 // Writes the demo scenario through the server layer, so the demo data passes the same
 // validation, normalization and audit as anything a user enters.
 import { ensureUser } from "../lib/db/users";
-import { migrate } from "../lib/db/migrate";
-import { sqlite } from "../lib/db/connection";
 import type { Actor, Role } from "../lib/server/actor";
-import { isDatabaseEmpty, setDatabaseAside } from "../lib/server/maintenance";
+import { isDatabaseEmpty, migrateDatabase, setDatabaseAside } from "../lib/server/maintenance";
 import { insertRecordsBulk } from "../lib/server/records-bulk";
 import { fail, guard, ok, type Result } from "../lib/server/result";
 import { createSource } from "../lib/server/sources";
@@ -87,17 +85,20 @@ export async function writeDemoScenario(
 }
 
 /**
- * Seeds the demo scenario. With `reset`, the current database file is moved aside (kept, never
- * deleted) and a new one is migrated and seeded. With `ifEmpty`, a database that already holds
- * sources or records is left alone.
+ * Seeds the demo scenario into the database DATABASE_URL names (a SQLite file or a PostgreSQL
+ * database), migrating it first. With `reset`, the current SQLite file is moved aside (kept, never
+ * deleted) and a new one is migrated and seeded; on PostgreSQL a reset is refused (nothing is
+ * deleted there either: seed a new, empty database instead). With `ifEmpty`, a database that
+ * already holds sources or records is left alone.
  */
 export async function seedDatabase(
   options: { reset?: boolean; ifEmpty?: boolean; onProgress?: (message: string) => void } = {},
 ): Promise<Result<SeedSummary>> {
   return guard<SeedSummary>(async () => {
     const previousDatabase = options.reset ? await setDatabaseAside() : null;
-    migrate(sqlite());
-    if (!isDatabaseEmpty()) {
+    const migrated = await migrateDatabase();
+    if (!migrated.ok) return migrated;
+    if (!(await isDatabaseEmpty())) {
       if (options.ifEmpty) return ok({ skipped: true, sources: 0, records: 0, previousDatabase });
       return fail("conflict", "The database already holds data. Use --reset to set it aside and seed a fresh demo, or --if-empty to skip.");
     }

@@ -9,7 +9,9 @@ Commands:
   db migrate                         apply pending database migrations
   db seed [--reset] [--if-empty]     seed the demo scenario (--reset keeps the old database file aside and starts anew)
   db backup OUT                      consistent online snapshot of the database and its stored files, with a manifest of SHA-256 hashes
-  db restore IN                      verify every hash of a backup, then put it in place (the replaced database is kept aside)
+                                     (PostgreSQL: pg_dump from an exported snapshot, with every table's row count and digest)
+  db restore IN [--replace]          verify every hash of a backup, then put it in place (the replaced database is kept aside;
+                                     PostgreSQL: an empty database, or --replace to rename the current schema aside)
   db copy --from file:./data/meltledger.db --to postgresql://USER@HOST:5432/NAME --files-to DIR [--json]
                                      move a SQLite database and its stored files to an empty PostgreSQL database (all or nothing), verified by counts and hashes
   records list --json [filters]      list records (--alloy, --source, --status, --outcome, --power/--speed/--hatch/--layer MIN-MAX, --limit N)
@@ -37,8 +39,8 @@ Commands:
   users set NAME [--role R] [--disable | --enable] [--password-stdin]
                                      change an account (disabling it or setting its password ends its sessions)
 
-DATABASE_URL selects the database (default file:./data/meltledger.db). A postgresql:// URL works so far
-for \`db migrate\` only: the other commands and the web app still need a SQLite file.
+DATABASE_URL selects the database: a SQLite file (default file:./data/meltledger.db) or a PostgreSQL
+server (postgresql://USER@HOST:5432/NAME; stored files then live in MELTLEDGER_FILES_DIR, default ./data/files).
 `;
 
 const COMMANDS: Record<string, () => Promise<CliCommand>> = {

@@ -1,6 +1,6 @@
 import type { Prisma } from "../generated/prisma/client";
 import { prismaReady } from "./client";
-import { sqlite } from "./connection";
+import type { SqlExecutor } from "./sql";
 
 export interface AuditInput {
   actorId: number | null;
@@ -73,10 +73,11 @@ export async function listRecentAudit(limit: number): Promise<AuditEventRow[]> {
  * records in one transaction, so its ids run from firstId to lastId with no others between; the
  * event's entity id is "first-last". Batches are few, so reading them all stays cheap.
  */
-export function listBatchEventsCovering(recordId: number): AuditEventRow[] {
-  const rows = sqlite()
-    .prepare(`SELECT id, actorName, action, entityType, entityId, before, after, reason, at FROM AuditEvent WHERE entityType = 'record_batch' ORDER BY id`)
-    .all() as (Omit<AuditEventRow, "before" | "after" | "at"> & { before: string | null; after: string | null; at: string })[];
+export async function listBatchEventsCovering(db: SqlExecutor, recordId: number): Promise<AuditEventRow[]> {
+  const rows = await db.all<Omit<AuditEventRow, "before" | "after" | "at"> & { before: string | null; after: string | null; at: string }>(
+    `SELECT "id", "actorName" AS "actorName", "action", "entityType" AS "entityType", "entityId" AS "entityId", "before", "after", "reason", "at"
+       FROM "AuditEvent" WHERE "entityType" = 'record_batch' ORDER BY "id"`,
+  );
   const out: AuditEventRow[] = [];
   for (const r of rows) {
     const m = /^(\d+)-(\d+)$/.exec(r.entityId);

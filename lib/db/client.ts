@@ -3,6 +3,7 @@ import { PrismaPg } from "@prisma/adapter-pg";
 import { PrismaClient } from "../generated/prisma/client";
 import { PrismaClient as PostgresPrismaClient } from "../generated/prisma-pg/client";
 import { resolveDatabaseTarget, type DatabaseEngine } from "./location";
+import { pgPoolSizes } from "./pool-size";
 
 export type Db = PrismaClient;
 
@@ -45,7 +46,7 @@ function entry() {
     // They differ in dialect options only, where the SQLite client offers a subset of PostgreSQL's
     // (transaction isolation levels, case-insensitive filters), so code typed against the SQLite
     // client is valid on this one: the cast narrows, it does not invent an API.
-    const client = new PostgresPrismaClient({ adapter: new PrismaPg({ connectionString: target.url }) }) as unknown as PrismaClient;
+    const client = new PostgresPrismaClient({ adapter: new PrismaPg({ connectionString: target.url, max: pgPoolSizes().prisma }) }) as unknown as PrismaClient;
     created = { key, engine: "postgresql", client, ready: Promise.resolve() };
   }
   globalForPrisma.meltledgerPrisma = created;

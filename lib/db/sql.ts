@@ -17,6 +17,7 @@ import type { Statement } from "better-sqlite3";
 import pg from "pg";
 import { openSqlite, sqlite, type SqliteDatabase } from "./connection";
 import { resolveDatabaseTarget, type DatabaseEngine } from "./location";
+import { pgPoolSizes } from "./pool-size";
 
 /** A parameter: Dates are stored as UTC timestamps, booleans as booleans (0/1 in SQLite). */
 export type SqlValue = string | number | boolean | null | Date;
@@ -492,7 +493,7 @@ export function sql(): SqlDatabase {
   // the raw SQLite connection may have been closed (closeSqlite) and opened again
   if (cached && (!(cached instanceof SqliteSql) || cached.db.open)) return cached;
   if (cached instanceof SqliteSql) cached.closeReader();
-  const db: SqlDatabase = target.engine === "sqlite" ? new SqliteSql(sqlite()) : postgresSql(target.url);
+  const db: SqlDatabase = target.engine === "sqlite" ? new SqliteSql(sqlite()) : postgresSql(target.url, { max: pgPoolSizes().sql });
   globalForSql.meltledgerSql.set(key, db);
   return db;
 }

@@ -14,8 +14,8 @@
  */
 import { createHash, randomBytes, scrypt as scryptCallback, timingSafeEqual, type ScryptOptions } from "node:crypto";
 import { z } from "zod";
-import { sqlite } from "../db/connection";
 import { deleteSession, findSessionUser, insertSession } from "../db/sessions";
+import { sql } from "../db/sql";
 import { getUserCredentials } from "../db/users";
 import { loginSchema } from "../schemas/user";
 import { localActor, type Actor, type Role, ROLES } from "./actor";
@@ -170,11 +170,11 @@ function isRole(role: string): role is Role {
   return (ROLES as readonly string[]).includes(role);
 }
 
-/** The signed-in user of a team-mode session token, or the reason there is none. Sync: one indexed read. */
-export function actorOfSessionToken(token: string | null, now: Date = new Date()): Result<Actor> {
+/** The signed-in user of a team-mode session token, or the reason there is none: one indexed read. */
+export async function actorOfSessionToken(token: string | null, now: Date = new Date()): Promise<Result<Actor>> {
   if (!token) return fail("unauthenticated", "Log in to continue.");
   if (!TOKEN_PATTERN.test(token)) return fail("unauthenticated", "Your session is not valid; log in again.");
-  const row = findSessionUser(sqlite(), tokenHash(token));
+  const row = await findSessionUser(sql(), tokenHash(token));
   if (!row) return fail("unauthenticated", "Your session has ended; log in again.");
   if (Date.parse(row.expiresAt) <= now.getTime()) return fail("unauthenticated", "Your session has expired; log in again.");
   if (row.disabled) return fail("unauthenticated", "This account is disabled.");
@@ -249,8 +249,7 @@ export async function login(input: unknown, facts: RequestFacts, now: Date = new
     failures.delete(key);
     const token = randomBytes(32).toString("base64url");
     const expires = new Date(now.getTime() + sessionHours() * 3_600_000);
-    const iso = (d: Date) => d.toISOString().replace("Z", "+00:00");
-    insertSession(sqlite(), { id: tokenHash(token), userId: user.id, createdAt: iso(now), expiresAt: iso(expires) });
+    await insertSession(sql(), { id: tokenHash(token), userId: user.id, createdAt: now, expiresAt: expires });
     return ok({ actor: { id: user.id, name: user.name, role: user.role as Role }, cookie: sessionCookie(token, expires, isSecure(facts)) });
   });
 }
@@ -258,7 +257,7 @@ export async function login(input: unknown, facts: RequestFacts, now: Date = new
 /** Ends the request's session (if any) and returns the cookie that clears it. */
 export async function logout(facts: RequestFacts): Promise<Result<{ cookie: SessionCookie }>> {
   return guard(async () => {
-    if (facts.sessionToken && TOKEN_PATTERN.test(facts.sessionToken)) deleteSession(sqlite(), tokenHash(facts.sessionToken));
+    if (facts.sessionToken && TOKEN_PATTERN.test(facts.sessionToken)) await deleteSession(sql(), tokenHash(facts.sessionToken));
     return ok({ cookie: sessionCookie("", new Date(0), isSecure(facts)) });
   });
 }
@@ -268,8 +267,8 @@ export async function logout(facts: RequestFacts): Promise<Result<{ cookie: Sess
 
 export type GateDecision = { action: "next" } | { action: "redirect"; location: string } | { action: "deny"; error: AppError };
 
-/** Paths anyone may reach in team mode: the login page and the viewer's static worker. */
-const PUBLIC_PATHS = [/^\/login(\/|$)/, /^\/api\/pdf-worker$/];
+/** Paths anyone may reach in team mode: the login page, its API twin (POST /api/session) and the viewer's static worker. */
+const PUBLIC_PATHS = [/^\/login(\/|$)/, /^\/api\/session$/, /^\/api\/pdf-worker$/];
 /** Paths only admins may open. */
 const ADMIN_PATHS = [/^\/admin(\/|$)/];
 
@@ -279,7 +278,7 @@ const ADMIN_PATHS = [/^\/admin(\/|$)/];
  * login page (pages) or answer 401 (API), and keep non-admins out of /admin. Routes and use cases
  * check again; this is the first line, not the only one.
  */
-export function gateRequest(facts: RequestFacts, pathname: string, search = "", now: Date = new Date()): GateDecision {
+export async function gateRequest(facts: RequestFacts, pathname: string, search = "", now: Date = new Date()): Promise<GateDecision> {
   const isApi = pathname.startsWith("/api/");
   const refused = crossSite(facts);
   if (refused && isApi) return { action: "deny", error: refused };
@@ -290,7 +289,7 @@ export function gateRequest(facts: RequestFacts, pathname: string, search = "", 
   if (PUBLIC_PATHS.some((p) => p.test(pathname))) return { action: "next" };
   let actor: Result<Actor>;
   try {
-    actor = actorOfSessionToken(facts.sessionToken, now);
+    actor = await actorOfSessionToken(facts.sessionToken, now);
   } catch (error) {
     console.error("[meltledger] session check failed", error);
     return { action: "deny", error: { code: "unavailable", message: "The session could not be checked; try again in a moment." } };

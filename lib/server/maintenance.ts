@@ -5,8 +5,9 @@ import { disconnectPrisma } from "../db/client";
 import { migrate } from "../db/migrate";
 import { migratePostgres } from "../db/migrate-postgres";
 import { describeConnectionError, isPostgresConnectionError, withPostgres } from "../db/postgres";
-import { resolveDatabaseLocation, resolveDatabaseTarget, type DatabaseEngine } from "../db/location";
-import { fail, guard, ok, type Result } from "./result";
+import { resolveDatabaseTarget, type DatabaseEngine } from "../db/location";
+import { sql } from "../db/sql";
+import { AppFailure, fail, guard, ok, type Result } from "./result";
 
 /**
  * Applies pending migrations to the database DATABASE_URL names: prisma/migrations on a SQLite
@@ -34,18 +35,27 @@ export async function migrateDatabase(): Promise<Result<MigrateSummary>> {
   });
 }
 
-export function isDatabaseEmpty(): boolean {
-  const db = sqlite();
-  const n = (db.prepare(`SELECT (SELECT COUNT(*) FROM Source) + (SELECT COUNT(*) FROM BuildRecord) AS n`).get() as { n: number }).n;
-  return n === 0;
+/** True when the database holds no source and no record (the demo seed's "--if-empty"), on either engine. */
+export async function isDatabaseEmpty(): Promise<boolean> {
+  const row = await sql().get<{ n: number }>(`SELECT (SELECT COUNT(*) FROM "Source") + (SELECT COUNT(*) FROM "BuildRecord") AS "n"`);
+  return (row?.n ?? 0) === 0;
 }
 
 /**
  * Moves the database file (and its WAL files) aside under data/previous/ — never deletes it —
  * so a reset starts from an empty file. Returns where the old file went, or null if none.
+ * SQLite only: a PostgreSQL database is not a file to move, and nothing is ever deleted, so a
+ * reset there is refused with what to do instead.
  */
 export async function setDatabaseAside(): Promise<string | null> {
-  const { filePath } = resolveDatabaseLocation();
+  const where = resolveDatabaseTarget();
+  if (where.engine === "postgresql") {
+    throw new AppFailure({
+      code: "conflict",
+      message: `DATABASE_URL names a PostgreSQL database (${where.redactedUrl}): a reset would have to delete its rows, which Meltledger never does. Back it up (meltledger db backup OUT), then point DATABASE_URL at a new, empty database (createdb) and seed that one.`,
+    });
+  }
+  const { filePath } = where;
   if (!existsSync(filePath)) return null;
   await disconnectPrisma();
   closeSqlite();

@@ -119,7 +119,7 @@ export async function getRecordPage(id: number): Promise<Result<RecordPage>> {
     const record = await getRecordDetail(id);
     if (!record) return fail("not_found", `Record ${id} does not exist.`);
     // The record's own events and the batch (import, seed) that created it, oldest first.
-    const history = [...listBatchEventsCovering(id), ...(await listAuditFor("record", id))].sort((a, b) => a.at.getTime() - b.at.getTime() || a.id - b.id);
+    const history = [...(await listBatchEventsCovering(sql(), id)), ...(await listAuditFor("record", id))].sort((a, b) => a.at.getTime() - b.at.getTime() || a.id - b.id);
     return ok({ record, history });
   });
 }

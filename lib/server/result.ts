@@ -111,5 +111,7 @@ export function postgresFailure(error: unknown): { ok: false; error: AppError } 
   const code = (error as { code?: unknown } | null)?.code;
   // SQLSTATE 40001 serialization_failure, 40P01 deadlock_detected (PostgreSQL documentation, Appendix A)
   if (code === "40001" || code === "40P01") return fail("unavailable", "The database is busy with conflicting changes; try again in a moment.", { engine: "postgresql" });
+  // 53300 too_many_connections (Appendix A): the server's max_connections is spent by all its clients together
+  if (code === "53300") return fail("unavailable", "The PostgreSQL server has no free connection (max_connections reached); try again in a moment, or lower MELTLEDGER_PG_POOL_SIZE on the app servers sharing it.", { engine: "postgresql" });
   return null;
 }

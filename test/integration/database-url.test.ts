@@ -2,12 +2,12 @@
 // plainly instead of opening some file, and the Prisma client is built over the pg adapter
 // (no server is needed for that: the adapter connects on first query).
 import { spawnSync } from "node:child_process";
+import { existsSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { disconnectPrisma, prismaEngine } from "@/lib/db/client";
 import { closeSqlite, sqlite } from "@/lib/db/connection";
 import { EngineNotSupportedError } from "@/lib/db/location";
 import { backupDatabase } from "@/lib/server/backup";
-import { isDatabaseEmpty } from "@/lib/server/maintenance";
 import { useTempDatabase } from "../support/temp-db";
 
 const tmp = useTempDatabase("dburl");
@@ -30,15 +30,16 @@ describe("a PostgreSQL DATABASE_URL", () => {
 
   test("the raw SQLite connection refuses it with a message naming what is missing", () => {
     expect(() => sqlite()).toThrow(EngineNotSupportedError);
-    expect(() => isDatabaseEmpty()).toThrow(/does not run on PostgreSQL yet/);
   });
 
-  test("a use case built on SQLite answers `unavailable` with that message, not an internal error", async () => {
+  test("a backup with the server unreachable answers `unavailable` naming the server, not an internal error, and writes nothing", async () => {
     const r = await backupDatabase("/tmp/meltledger-never-written");
     expect(r.ok).toBe(false);
     if (r.ok) return;
     expect(r.error.code).toBe("unavailable");
-    expect(r.error.message).toMatch(/postgresql:\/\/lab:\*\*\*@127\.0\.0\.1:1\/meltledger.*does not run on PostgreSQL yet/);
+    expect(r.error.message).toMatch(/PostgreSQL server cannot be reached.*127\.0\.0\.1:1/);
+    expect(r.error.message).not.toContain("secret");
+    expect(existsSync("/tmp/meltledger-never-written")).toBe(false);
   });
 
   test("a SQLite file URL still selects the SQLite client", async () => {
@@ -53,7 +54,7 @@ describe("a PostgreSQL DATABASE_URL", () => {
   });
 
   test("a command that needs SQLite exits with the message, without the password", () => {
-    const r = spawnSync(process.execPath, ["bin/meltledger.mjs", "flags", "list", "--json"], { env: { ...process.env, DATABASE_URL: PG_URL }, encoding: "utf8" });
+    const r = spawnSync(process.execPath, ["bin/meltledger.mjs", "coverage", "--json"], { env: { ...process.env, DATABASE_URL: PG_URL }, encoding: "utf8" });
     expect(r.status).toBe(2);
     expect(JSON.parse(r.stderr).error).toMatchObject({ code: "unavailable", message: expect.stringMatching(/does not run on PostgreSQL yet/) });
     expect(r.stderr).not.toContain("secret");

@@ -7,12 +7,12 @@ import { parseCli, reportError } from "../args";
 import type { CliCommand } from "../types";
 
 const USAGE =
-  "meltledger db migrate | meltledger db seed [--reset] [--if-empty] [--json] | meltledger db backup OUT [--json] | meltledger db restore IN [--json] | meltledger db copy --from file:./data/meltledger.db --to postgresql://USER@HOST:5432/NAME --files-to DIR [--json]";
+  "meltledger db migrate | meltledger db seed [--reset] [--if-empty] [--json] | meltledger db backup OUT [--json] | meltledger db restore IN [--replace] [--json] | meltledger db copy --from file:./data/meltledger.db --to postgresql://USER@HOST:5432/NAME --files-to DIR [--json]";
 
 /** `meltledger db migrate`, `db seed [--reset] [--if-empty]`, `db backup OUT`, `db restore IN` and `db copy --from --to --files-to`. */
 export const db: CliCommand = async (argv, io) => {
   const [sub, ...rest] = argv;
-  const options: NonNullable<ParseArgsConfig["options"]> = sub === "copy" ? { from: { type: "string" }, to: { type: "string" }, "files-to": { type: "string" }, json: { type: "boolean" } } : { reset: { type: "boolean" }, "if-empty": { type: "boolean" }, json: { type: "boolean" } };
+  const options: NonNullable<ParseArgsConfig["options"]> = sub === "copy" ? { from: { type: "string" }, to: { type: "string" }, "files-to": { type: "string" }, json: { type: "boolean" } } : { reset: { type: "boolean" }, "if-empty": { type: "boolean" }, replace: { type: "boolean" }, json: { type: "boolean" } };
   const parsed = parseCli(rest, options, io, USAGE);
   if (!parsed.ok) return 2;
   const json = parsed.values.json === true;
@@ -56,13 +56,13 @@ export const db: CliCommand = async (argv, io) => {
       const r = await backupDatabase(where);
       if (!r.ok) return reportError(io, r.error, json);
       if (json) io.stdout(`${JSON.stringify(r.data)}\n`);
-      else io.stdout(`Backup written to ${r.data.out}: database ${r.data.databaseBytes.toLocaleString("en")} bytes, ${r.data.files} stored file(s)${r.data.missingFiles.length ? `; ${r.data.missingFiles.length} stored file(s) named by the database were missing or damaged and are listed in manifest.json` : ""}.\n`);
+      else io.stdout(`Backup written to ${r.data.out}: ${r.data.engine === "postgresql" ? "PostgreSQL dump" : "database"} ${r.data.databaseBytes.toLocaleString("en")} bytes, ${r.data.files} stored file(s)${r.data.missingFiles.length ? `; ${r.data.missingFiles.length} stored file(s) named by the database were missing or damaged and are listed in manifest.json` : ""}.\n`);
       return 0;
     }
-    const r = await restoreDatabase(where);
+    const r = await restoreDatabase(where, { replace: parsed.values.replace === true });
     if (!r.ok) return reportError(io, r.error, json);
     if (json) io.stdout(`${JSON.stringify(r.data)}\n`);
-    else io.stdout(`Restored ${r.data.database} from ${r.data.restoredFrom} (every hash checked); ${r.data.filesCopied} stored file(s) copied, ${r.data.filesAlreadyPresent} already there.${r.data.previousDatabase ? ` The replaced database was kept at ${r.data.previousDatabase}.` : ""}\n`);
+    else io.stdout(`Restored ${r.data.database} from ${r.data.restoredFrom} (every hash checked${r.data.engine === "postgresql" ? ", every table's row count and digest equal to the manifest's" : ""}); ${r.data.filesCopied} stored file(s) copied, ${r.data.filesAlreadyPresent} already there.${r.data.previousDatabase ? ` The replaced database was kept ${r.data.engine === "postgresql" ? "as the schema" : "at"} ${r.data.previousDatabase}.` : ""}\n`);
     return 0;
   }
   io.stderr(`Unknown or missing subcommand.\n\nUsage: ${USAGE}\n`);
