@@ -11,12 +11,7 @@ import { mixedUnitRecord, sourceInput } from "../support/fixtures";
 
 const listRecordsCount = async () => (await sql().get<{ n: number }>(`SELECT COUNT(*) AS n FROM "BuildRecord"`))!.n;
 
-describeEachEngine("records", (current) => {
-  // The record page reads its batch history (listBatchEventsCovering) on the raw SQLite
-  // connection: its tests run on SQLite until that moves to sql().
-  const needsRecordPage = (ctx: { skip: (note?: string) => void }) => {
-    if (current().engine !== "sqlite") ctx.skip("the record page does not run on PostgreSQL yet");
-  };
+describeEachEngine("records", () => {
 
   let actor: Actor;
   let sourceId: number;
@@ -65,8 +60,7 @@ describeEachEngine("records", (current) => {
   });
 
   describe("records", () => {
-    test("mixed units are stored canonical, with the text as entered kept", async (ctx) => {
-      needsRecordPage(ctx);
+    test("mixed units are stored canonical, with the text as entered kept", async () => {
       const r = await createRecord(mixedUnitRecord(sourceId), actor);
       expect(r.ok).toBe(true);
       if (!r.ok) return;
@@ -87,8 +81,7 @@ describeEachEngine("records", (current) => {
       expect(page.data.history.map((h) => h.action)).toEqual(["create"]);
     });
 
-    test("FWHM spot is stored as its 1/e² diameter", async (ctx) => {
-      needsRecordPage(ctx);
+    test("FWHM spot is stored as its 1/e² diameter", async () => {
       const r = await createRecord(mixedUnitRecord(sourceId, { spotDiameter: { value: "50", unit: "µm" }, spotDefinition: "fwhm" }), actor);
       expect(r.ok).toBe(true);
       if (!r.ok) return;
@@ -118,8 +111,7 @@ describeEachEngine("records", (current) => {
       expect(!r.ok && r.error.details?.fieldErrors?.sourceId).toBeTruthy();
     });
 
-    test("two people editing one record: the second save is a conflict, never a silent overwrite", async (ctx) => {
-      needsRecordPage(ctx);
+    test("two people editing one record: the second save is a conflict, never a silent overwrite", async () => {
       const created = await createRecord(mixedUnitRecord(sourceId), actor);
       if (!created.ok) throw new Error(created.error.message);
       const { id, version } = created.data;
@@ -133,8 +125,7 @@ describeEachEngine("records", (current) => {
       expect(page.ok && page.data.history.map((h) => h.action)).toEqual(["create", "update"]);
     });
 
-    test("rejecting keeps the record, needs a reason, and is audited", async (ctx) => {
-      needsRecordPage(ctx);
+    test("rejecting keeps the record, needs a reason, and is audited", async () => {
       const created = await createRecord(mixedUnitRecord(sourceId), actor);
       if (!created.ok) throw new Error(created.error.message);
       const noReason = await rejectRecord({ id: created.data.id, version: created.data.version, reason: "" }, actor);

@@ -1,7 +1,7 @@
 // Checks on save, flags kept in step, and the review actions, on both engines with the same test.
 // Records are written through the server layer (createRecord, updateRecord: Prisma on either engine)
 // and read back through sql(); only the tests of the bulk writer run on SQLite alone (see there).
-import { beforeAll, describe, expect, test, type TestContext } from "vitest";
+import { beforeAll, describe, expect, test } from "vitest";
 import { listAuditFor } from "@/lib/db/audit";
 import { sql } from "@/lib/db/sql";
 import { localActor, type Actor } from "@/lib/server/actor";
@@ -44,7 +44,7 @@ async function flagsOf(recordId: number, state: "open" | "resolved" | "waived" |
   return r.data;
 }
 
-describeEachEngine("checks and review", (current) => {
+describeEachEngine("checks and review", () => {
   let actor: Actor;
   let sourceId: number;
   let otherSourceId: number;
@@ -57,13 +57,6 @@ describeEachEngine("checks and review", (current) => {
 
   const editInput = (id: number, version: number, overrides: Partial<RecordInput>) => ({ ...mixedUnitRecord(sourceId, overrides), id, version });
 
-  /**
-   * The bulk writer (records-bulk.ts) still runs on the raw SQLite connection: until it moves to
-   * sql.ts its tests run on SQLite only, and are reported skipped on PostgreSQL.
-   */
-  const sqliteOnly = (ctx: TestContext) => {
-    if (current().engine !== "sqlite") ctx.skip();
-  };
 
   beforeAll(async () => {
     actor = await localActor();
@@ -348,8 +341,7 @@ describeEachEngine("checks and review", (current) => {
       expect((await flagsOf(id)).map((f) => f.code)).not.toContain("range.hatch_spacing");
     });
 
-    test("bulk inserts are checked after they commit (SQLite: the bulk writer)", async (ctx) => {
-      sqliteOnly(ctx);
+    test("bulk inserts are checked after they commit", async () => {
       const rows = [mixedUnitRecord(sourceId, { laserPower: { value: "290", unit: "W" } }), mixedUnitRecord(sourceId, { laserPower: { value: "290", unit: "W" } })];
       const r = await insertRecordsBulk(rows, actor, { importFile: "batch.csv" });
       if (!r.ok) throw new Error(r.error.message);
@@ -357,8 +349,7 @@ describeEachEngine("checks and review", (current) => {
       expect(flags.map((f) => [f.code, f.import_file, f.import_row])).toEqual([["duplicate.exact", "batch.csv", 2]]);
     });
 
-    test("bulk writes store the quality score a check run computes, so the run rewrites none (SQLite: the bulk writer)", async (ctx) => {
-      sqliteOnly(ctx);
+    test("bulk writes store the quality score a check run computes, so the run rewrites none", async () => {
       const rows = [
         mixedUnitRecord(sourceId, { laserPower: { value: "210", unit: "W" } }),
         mixedUnitRecord(sourceId, { laserPower: { value: "220", unit: "W" }, spotDiameter: { value: "", unit: "" } }),
@@ -377,8 +368,7 @@ describeEachEngine("checks and review", (current) => {
       expect(await read()).toEqual(atWrite);
     });
 
-    test("a large batch (consecutive ids, read as one range) is checked in full: every record scored, its repeat flagged (SQLite: the bulk writer)", async (ctx) => {
-      sqliteOnly(ctx);
+    test("a large batch (consecutive ids, read as one range) is checked in full: every record scored, its repeat flagged", async () => {
       const rows = Array.from({ length: 800 }, (_, i) => mixedUnitRecord(sourceId, { laserPower: { value: String(100 + i * 0.25), unit: "W" } }));
       rows.push(mixedUnitRecord(sourceId, { laserPower: { value: "150", unit: "W" } })); // repeats row 201
       const r = await insertRecordsBulk(rows, actor, { importFile: "large.csv" });
