@@ -4,6 +4,7 @@
 import { readFileSync } from "node:fs";
 import { closeSqlite } from "../lib/db/connection";
 import { disconnectPrisma } from "../lib/db/client";
+import { closeSql } from "../lib/db/sql";
 import { localActor } from "../lib/server/actor";
 import { createExport } from "../lib/server/exports";
 
@@ -14,5 +15,6 @@ const actor = await localActor();
 const r = await createExport(JSON.parse(readFileSync(requestFile, "utf8")), actor);
 if (!r.ok) throw new Error(r.error.message);
 await disconnectPrisma();
+await closeSql();
 closeSqlite();
 process.stdout.write(`${JSON.stringify({ ms: r.data.ms, timings: r.data.timings, counts: r.data.counts, folder: r.data.folder })}\n`);
