@@ -1,5 +1,6 @@
 import { closeSqlite } from "../db/connection";
 import { disconnectPrisma } from "../db/client";
+import { closeSql } from "../db/sql";
 import type { CliCommand, CliIo } from "./types";
 
 const HELP = `meltledger — curation workbench for LPBF build records
@@ -70,6 +71,8 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     return await (await load())(rest, io);
   } finally {
     await disconnectPrisma();
+    // a PostgreSQL pool left open would keep the process alive until its idle connections time out
+    await closeSql();
     closeSqlite();
   }
 }

@@ -10,7 +10,7 @@ import path from "node:path";
 import packageJson from "../../package.json";
 import { appendAuditEvent } from "../db/audit-raw";
 import { countExportCandidates, countRecords, exportRunNamesLike, getExportRun, insertExportRun, listExportRuns, loadExportRecords, loadExportSources, type ExportRunRow } from "../db/exports";
-import { resolveDatabaseLocation } from "../db/location";
+import { resolveDatabaseTarget } from "../db/location";
 import { sql, type SqlExecutor } from "../db/sql";
 import { buildTrainingSet, type BuiltExport } from "../domain/export/build";
 import { exportFilesWith } from "../domain/export/files";
@@ -24,9 +24,9 @@ import { fail, guard, invalid, ok, type Result } from "./result";
 
 export const TOOL_VERSION: string = packageJson.version;
 
-/** The folder export runs live in: <data folder>/exports/<name>/. */
+/** The folder export runs live in: <data folder>/exports/<name>/ (on PostgreSQL the data folder is MELTLEDGER_FILES_DIR). */
 export function exportsDir(): string {
-  return path.join(resolveDatabaseLocation().dataDir, "exports");
+  return path.join(resolveDatabaseTarget().dataDir, "exports");
 }
 
 export interface ExportCounts {
