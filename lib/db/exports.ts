@@ -59,31 +59,17 @@ export async function loadExportRecords(db: SqlExecutor, q: ExportCandidateQuery
   );
   const comps = await compositions(db);
   const iso = lastValueMemo(isoOf);
-  const out: ExportRecord[] = new Array(rows.length);
+  // Each row becomes its record in place (the driver's objects are fresh and ours): a second
+  // object per row with every field copied would cost more than the rest of this loop.
   for (let i = 0; i < rows.length; i++) {
-    const r = rows[i]!;
+    const r = rows[i]! as ExportRow & { composition?: Composition | null };
     const c = comps.get(r.materialId);
-    out[i] = {
-      id: r.id,
-      sourceId: r.sourceId,
-      alloyKey: r.alloyKey,
-      status: r.status,
-      outcome: r.outcome,
-      relativeDensityPct: r.relativeDensityPct,
-      laserPowerW: r.laserPowerW,
-      scanSpeedMmPerS: r.scanSpeedMmPerS,
-      hatchSpacingUm: r.hatchSpacingUm,
-      layerThicknessUm: r.layerThicknessUm,
-      spotDiameterUm: r.spotDiameterUm,
-      preheatC: r.preheatC,
-      powderD50Um: r.powderD50Um,
-      qualityScore: r.qualityScore,
-      createdAt: iso(r.createdAt),
-      updatedAt: iso(r.updatedAt),
-      composition: c && c.components.length ? c : null,
-    };
+    r.createdAt = iso(r.createdAt);
+    r.updatedAt = iso(r.updatedAt);
+    r.composition = c && c.components.length ? c : null;
   }
-  return out;
+  // materialId stays on the objects beside the record's fields; nothing reads it
+  return rows as unknown as ExportRecord[];
 }
 
 /** `f` remembering its last argument and result: rows written together share their timestamps. */
