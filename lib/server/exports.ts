@@ -195,16 +195,19 @@ export async function createExport(input: unknown, actor: Actor, options: Create
     const at = new Date();
     const built = r.built;
     const runCounts = { ...counts, warnings: built.warnings, rows: Object.fromEntries(entries.filter((e) => e.rows !== null && e.name.endsWith(".csv")).map((e) => [e.name, e.rows])) };
+    let renamed = false;
     try {
       // The folder is in place before the run is recorded: a recorded run always has its files.
       renameSync(staging, folder);
+      renamed = true;
       await sql().transaction(async (tx) => {
         const id = await insertExportRun(tx, { name, params: { request: requestFromOptions(p.options) }, seed: p.options.seed, counts: runCounts, files: fileHashes, toolVersion: TOOL_VERSION, createdById: actor.id, at });
         await appendAuditEvent(tx, { actorId: actor.id, actorName: actor.name, action: "export", entityType: "export", entityId: id, after: { name, seed: p.options.seed, labelled: counts.labelled, files: fileHashes }, at: at.toISOString() });
       });
     } catch (error) {
       rmSync(staging, { recursive: true, force: true });
-      if (existsSync(folder) && !(await getExportRun(sql(), name))) rmSync(folder, { recursive: true, force: true });
+      // only the folder this run put in place: another run of the same name may own the one there
+      if (renamed && !(await getExportRun(sql(), name))) rmSync(folder, { recursive: true, force: true });
       throw error;
     }
     if (options.outDir) {

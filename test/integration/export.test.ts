@@ -2,7 +2,7 @@
 // and on PostgreSQL with the same invented records: the same records give byte-identical files on
 // both engines.
 import { createHash } from "node:crypto";
-import { existsSync, mkdtempSync, readFileSync, readdirSync } from "node:fs";
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { parse } from "csv-parse/sync";
@@ -11,7 +11,7 @@ import type { DatabaseEngine } from "@/lib/db/location";
 import { sql } from "@/lib/db/sql";
 import { createPrng } from "@/lib/domain/prng";
 import { localActor } from "@/lib/server/actor";
-import { createExport, getExport, listExports, openExportFile, previewExport, rerunExport } from "@/lib/server/exports";
+import { createExport, exportsDir, getExport, listExports, openExportFile, previewExport, rerunExport } from "@/lib/server/exports";
 import { createSource } from "@/lib/server/sources";
 import { acceptAllForTest, cliHere, writeRecordsForTest } from "../support/engine-records";
 import { describeEachEngine } from "../support/engines";
@@ -96,6 +96,18 @@ describeEachEngine("training-set export", (current) => {
       if (!r.ok) expect(r.error.code).toBe("conflict");
       const runs = await listExports();
       expect(before && runs.ok && runs.data.map((x) => x.name)).toEqual(["binary-smote-rerun", "binary-smote"]);
+    });
+
+    test("a folder of the chosen name that is not a recorded run is left as it is, and the export is not recorded", async () => {
+      const foreign = path.join(exportsDir(), "left-alone");
+      mkdirSync(foreign, { recursive: true });
+      writeFileSync(path.join(foreign, "note.txt"), "not an export");
+      const r = await createExport({ name: "left-alone", seed: 5 }, await localActor());
+      expect(r.ok).toBe(false);
+      expect(readFileSync(path.join(foreign, "note.txt"), "utf8")).toBe("not an export");
+      expect(readdirSync(foreign)).toEqual(["note.txt"]);
+      expect((await getExport("left-alone")).ok).toBe(false);
+      expect(readdirSync(exportsDir()).filter((f) => f.startsWith(".staging"))).toEqual([]);
     });
 
     test("a saved run reads back with its request, counts and canonical time; its audit event is written with it", async () => {
