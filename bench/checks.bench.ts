@@ -7,12 +7,13 @@ import { closeSqlite, sqlite } from "../lib/db/connection";
 import { disconnectPrisma } from "../lib/db/client";
 import { loadCheckRecords } from "../lib/db/check-inputs";
 import { migrate } from "../lib/db/migrate";
+import { closeSql, sql } from "../lib/db/sql";
 import { defaultCheckSettings } from "../lib/domain/check-settings";
 import { checkRecords } from "../lib/domain/checks/index";
 import { physicsProvider } from "../lib/domain/checks/physics-input";
 import { findDuplicatePairs, tolerancesFrom } from "../lib/domain/duplicates";
 import { localActor } from "../lib/server/actor";
-import { runChecksSync } from "../lib/server/checks";
+import { runChecksNow } from "../lib/server/checks";
 import { insertRecordsBulk } from "../lib/server/records-bulk";
 import { createSource } from "../lib/server/sources";
 import { benchRecordInputs } from "./records-fixture";
@@ -49,13 +50,12 @@ export const checksBench: BenchSuite = async () => {
   // random, so neighbours and physics disagree often: a worst case for the number of flags.
   const inserted = await insertRecordsBulk(benchRecordInputs(N, sourceIds), actor, { deferChecks: true });
   if (!inserted.ok) throw new Error(inserted.error.message);
-  const db = sqlite();
 
   const t0 = performance.now();
-  const first = runChecksSync("all", { actor }, db);
+  const first = await runChecksNow("all", { actor });
   const fullMs = performance.now() - t0;
 
-  const records = loadCheckRecords(db, "all");
+  const records = await loadCheckRecords(sql(), "all");
   const settings = defaultCheckSettings();
   const t1 = performance.now();
   checkRecords(records, settings, { physics: physicsProvider(settings, new Map()) });
@@ -74,7 +74,7 @@ export const checksBench: BenchSuite = async () => {
   ];
 
   const again = performance.now();
-  const second = runChecksSync("all", { actor }, db);
+  const second = await runChecksNow("all", { actor });
   figures.push({
     name: `check re-run over ${N.toLocaleString("en")} records with nothing changed (${second.refreshed} refreshed)`,
     value: (performance.now() - again) / 1000,
@@ -106,6 +106,7 @@ export const checksBench: BenchSuite = async () => {
     ratio: { value: growth, target: "<= 15", pass: growth <= 15 },
   });
 
+  await closeSql();
   await disconnectPrisma();
   closeSqlite();
   rmSync(dir, { recursive: true, force: true });

@@ -1,4 +1,5 @@
 import { closeSqlite } from "../db/connection";
+import { closeSql } from "../db/sql";
 import { disconnectPrisma } from "../db/client";
 import { closeSql } from "../db/sql";
 import type { CliCommand, CliIo } from "./types";
@@ -70,6 +71,8 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
   try {
     return await (await load())(rest, io);
   } finally {
+    // a PostgreSQL pool left open would keep the process alive until its idle connections time out
+    await closeSql();
     await disconnectPrisma();
     // a PostgreSQL pool left open would keep the process alive until its idle connections time out
     await closeSql();

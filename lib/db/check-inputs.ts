@@ -2,6 +2,7 @@ import type { CheckRecord } from "../domain/checks/types";
 import type { PropertyOverrides, PropertyName } from "../domain/alloy-properties";
 import type { SourceAttributes } from "../domain/source-quality";
 import type { SqliteDatabase } from "./connection";
+import type { SqlExecutor } from "./sql";
 
 /** A record as the checks read it, with the columns the run needs beside the check itself. */
 export interface CheckInputRow extends CheckRecord {
@@ -11,27 +12,29 @@ export interface CheckInputRow extends CheckRecord {
 }
 
 
-/** The columns read, in the order CheckInput's constructor takes them. */
-const COLUMNS = `id, sourceId, materialId, alloyKey, laserPowerW, scanSpeedMmPerS, hatchSpacingUm, layerThicknessUm, spotDiameterUm, preheatC,
-  powderD10Um, powderD50Um, powderD90Um, relativeDensityPct, volumetricEnergyJMm3, outcome, machine, atmosphere, spotDefinition, enteredValues,
-  status, version, qualityScore`;
+/** The columns read (CheckInput's constructor reads them by name). */
+const COLUMNS = `"id", "sourceId", "materialId", "alloyKey", "laserPowerW", "scanSpeedMmPerS", "hatchSpacingUm", "layerThicknessUm", "spotDiameterUm", "preheatC",
+  "powderD10Um", "powderD50Um", "powderD90Um", "relativeDensityPct", "volumetricEnergyJMm3", "outcome", "machine", "atmosphere", "spotDefinition", "enteredValues",
+  "status", "version", "qualityScore"`;
 
 /** Records that take part in checks: everything but rejected records and those merged into another. */
-const ACTIVE = `status NOT IN ('rejected', 'merged')`;
+const ACTIVE = `"status" NOT IN ('rejected', 'merged')`;
 
 type Components = CheckRecord["components"];
 
 /** Components per material, one shared frozen array per material (records of a grade share it). */
-function materialComponents(db: SqliteDatabase, materialIds: Iterable<number>): Map<number, { basis: string; components: Components }> {
+async function materialComponents(db: SqlExecutor, materialIds: Iterable<number>): Promise<Map<number, { basis: string; components: Components }>> {
   const ids = [...new Set(materialIds)];
   const out = new Map<number, { basis: string; components: { element: string; amount: number; isBalance: boolean }[] }>();
   for (let i = 0; i < ids.length; i += 500) {
     const part = ids.slice(i, i + 500);
     const ph = part.map(() => "?").join(",");
-    for (const m of db.prepare(`SELECT id, basis FROM Material WHERE id IN (${ph})`).all(...part) as { id: number; basis: string }[]) out.set(m.id, { basis: m.basis, components: [] });
-    for (const c of db.prepare(`SELECT materialId, element, amount, isBalance FROM MaterialComponent WHERE materialId IN (${ph}) ORDER BY materialId, element`).all(...part) as { materialId: number; element: string; amount: number; isBalance: number }[]) {
-      out.get(c.materialId)?.components.push({ element: c.element, amount: c.amount, isBalance: c.isBalance === 1 });
-    }
+    for (const m of await db.all<{ id: number; basis: string }>(`SELECT "id", "basis" FROM "Material" WHERE "id" IN (${ph})`, part)) out.set(m.id, { basis: m.basis, components: [] });
+    const components = await db.all<{ materialId: number; element: string; amount: number; isBalance: boolean }>(
+      `SELECT "materialId" AS "materialId", "element", "amount", "isBalance" AS "isBalance" FROM "MaterialComponent" WHERE "materialId" IN (${ph}) ORDER BY "materialId", "element"`,
+      part,
+    );
+    for (const c of components) out.get(c.materialId)?.components.push({ element: c.element, amount: c.amount, isBalance: c.isBalance === true });
   }
   for (const v of out.values()) Object.freeze(v.components);
   return out;
@@ -48,6 +51,14 @@ function parseEntered(text: string): CheckRecord["entered"] {
 }
 
 const NO_COMPONENTS: Components = Object.freeze([]);
+
+/** A row of COLUMNS as the driver gives it. */
+interface RecordRow {
+  id: number; sourceId: number; materialId: number; alloyKey: string; laserPowerW: number | null; scanSpeedMmPerS: number | null; hatchSpacingUm: number | null;
+  layerThicknessUm: number | null; spotDiameterUm: number | null; preheatC: number | null; powderD10Um: number | null; powderD50Um: number | null; powderD90Um: number | null;
+  relativeDensityPct: number | null; volumetricEnergyJMm3: number | null; outcome: string; machine: string | null; atmosphere: string | null; spotDefinition: string | null;
+  enteredValues: string; status: string; version: number; qualityScore: number | null;
+}
 
 /**
  * A loaded record. What was entered is parsed on first use only: most checks never need it, and
@@ -81,34 +92,38 @@ class CheckInput implements CheckInputRow {
   private enteredText: string;
   private parsed: CheckRecord["entered"] | null = null;
 
-  /** `r` is a row of COLUMNS in raw (array) form: no object per row from the driver. */
-  constructor(r: unknown[], materials: Map<number, { basis: string; components: Components }>) {
-    const material = materials.get(r[2] as number);
-    this.id = r[0] as number;
-    this.sourceId = r[1] as number;
-    this.alloyKey = r[3] as string;
+  constructor(r: RecordRow, materials: Materials) {
+    const material = materials.get(r.materialId);
+    this.id = r.id;
+    this.sourceId = r.sourceId;
+    this.alloyKey = r.alloyKey;
     this.components = material?.components ?? NO_COMPONENTS;
     this.compositionBasis = material?.basis ?? "wt";
-    this.laserPowerW = r[4] as number | null;
-    this.scanSpeedMmPerS = r[5] as number | null;
-    this.hatchSpacingUm = r[6] as number | null;
-    this.layerThicknessUm = r[7] as number | null;
-    this.spotDiameterUm = r[8] as number | null;
-    this.preheatC = r[9] as number | null;
-    this.powderD10Um = r[10] as number | null;
-    this.powderD50Um = r[11] as number | null;
-    this.powderD90Um = r[12] as number | null;
-    this.relativeDensityPct = r[13] as number | null;
-    this.volumetricEnergyJMm3 = r[14] as number | null;
-    this.outcome = r[15] as string;
-    this.machine = r[16] as string | null;
-    this.atmosphere = r[17] as string | null;
-    this.spotDefinition = r[18] as string | null;
-    this.enteredText = r[19] as string;
-    this.status = r[20] as string;
-    this.version = r[21] as number;
-    this.qualityScore = r[22] as number | null;
+    this.laserPowerW = r.laserPowerW;
+    this.scanSpeedMmPerS = r.scanSpeedMmPerS;
+    this.hatchSpacingUm = r.hatchSpacingUm;
+    this.layerThicknessUm = r.layerThicknessUm;
+    this.spotDiameterUm = r.spotDiameterUm;
+    this.preheatC = r.preheatC;
+    this.powderD10Um = r.powderD10Um;
+    this.powderD50Um = r.powderD50Um;
+    this.powderD90Um = r.powderD90Um;
+    this.relativeDensityPct = r.relativeDensityPct;
+    this.volumetricEnergyJMm3 = r.volumetricEnergyJMm3;
+    this.outcome = r.outcome;
+    this.machine = r.machine;
+    this.atmosphere = r.atmosphere;
+    this.spotDefinition = r.spotDefinition;
+    this.enteredText = r.enteredValues;
+    this.status = r.status;
+    this.version = r.version;
+    this.qualityScore = r.qualityScore;
     this.enteredAllReported = !this.enteredText.includes('"assumed"') && !this.enteredText.includes('"derived"');
+  }
+
+  setMaterial(material: { basis: string; components: Components } | undefined) {
+    this.components = material?.components ?? NO_COMPONENTS;
+    this.compositionBasis = material?.basis ?? "wt";
   }
 
   get entered(): CheckRecord["entered"] {
@@ -116,42 +131,94 @@ class CheckInput implements CheckInputRow {
   }
 }
 
-function toInputs(db: SqliteDatabase, rows: unknown[][]): CheckInputRow[] {
-  const materials = materialComponents(db, rows.map((r) => r[2] as number));
-  return rows.map((r) => new CheckInput(r, materials));
+type Materials = Map<number, { basis: string; components: Components }>;
+
+/** The materials of the given alloys (or all), with their components. */
+async function materialsOfAlloys(db: SqlExecutor, alloyKeys: readonly string[] | "all"): Promise<Materials> {
+  const rows =
+    alloyKeys === "all"
+      ? await db.all<{ id: number }>(`SELECT "id" FROM "Material" ORDER BY "id"`)
+      : await db.all<{ id: number }>(`SELECT "id" FROM "Material" WHERE "alloyKey" IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY "id"`, alloyKeys);
+  return materialComponents(db, rows.map((r) => r.id));
 }
 
-/** Every active record, or the active records of the given alloys. */
-export function loadCheckRecords(db: SqliteDatabase, alloyKeys: readonly string[] | "all"): CheckInputRow[] {
-  if (alloyKeys === "all") return toInputs(db, db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} ORDER BY id`).raw(true).all() as unknown[][]);
+/** Records read per query by a full scan. */
+const SCAN_CHUNK = 4096;
+
+/**
+ * Turns rows into check inputs. A record whose material is not among `materials` (its alloy key
+ * and its material's disagree) gets it looked up at the end.
+ */
+class InputBuilder {
+  readonly inputs: CheckInput[] = [];
+  private readonly missing: [CheckInput, number][] = [];
+  constructor(private readonly materials: Materials) {}
+
+  add(r: RecordRow) {
+    const input = new CheckInput(r, this.materials);
+    if (!this.materials.has(r.materialId)) this.missing.push([input, r.materialId]);
+    this.inputs.push(input);
+  }
+
+  async done(db: SqlExecutor): Promise<CheckInputRow[]> {
+    if (this.missing.length) {
+      const more = await materialComponents(db, this.missing.map(([, id]) => id));
+      for (const [input, id] of this.missing) input.setMaterial(more.get(id));
+    }
+    return this.inputs;
+  }
+}
+
+/**
+ * Every active record (those of `keep`'s alloys only, when given), in id order, read a chunk at a
+ * time: the driver's row objects then die young instead of all 100k of them living through a
+ * full garbage collection before they are copied into check inputs.
+ */
+async function scanInputs(db: SqlExecutor, materials: Materials, keep: ((alloyKey: string) => boolean) | null): Promise<CheckInputRow[]> {
+  const builder = new InputBuilder(materials);
+  for (let after = 0; ; ) {
+    const rows = await db.all<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "id" > ? ORDER BY "id" LIMIT ?`, [after, SCAN_CHUNK]);
+    for (const r of rows) if (!keep || keep(r.alloyKey)) builder.add(r);
+    if (rows.length < SCAN_CHUNK) break;
+    after = rows[rows.length - 1]!.id;
+  }
+  return builder.done(db);
+}
+
+/** Every active record, or the active records of the given alloys, in id order. */
+export async function loadCheckRecords(db: SqlExecutor, alloyKeys: readonly string[] | "all"): Promise<CheckInputRow[]> {
+  if (alloyKeys === "all") return scanInputs(db, await materialsOfAlloys(db, "all"), null);
   if (!alloyKeys.length) return [];
   // When the alloys asked for hold most records (a large import, say), one scan of the table in id
   // order beats index lookups followed by a sort; the count per alloy comes from an index.
-  const counts = db.prepare(`SELECT alloyKey, COUNT(*) AS n FROM BuildRecord WHERE ${ACTIVE} GROUP BY alloyKey`).raw(true).all() as [string, number][];
+  const counts = await db.all<{ alloyKey: string; n: number }>(`SELECT "alloyKey" AS "alloyKey", COUNT(*) AS n FROM "BuildRecord" WHERE ${ACTIVE} GROUP BY "alloyKey"`);
   const wanted = new Set(alloyKeys);
   let total = 0;
   let inWanted = 0;
-  for (const [alloy, n] of counts) {
+  for (const { alloyKey, n } of counts) {
     total += n;
-    if (wanted.has(alloy)) inWanted += n;
+    if (wanted.has(alloyKey)) inWanted += n;
   }
-  if (inWanted >= 0.6 * total) {
-    const rows = db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} ORDER BY id`).raw(true).all() as unknown[][];
-    return toInputs(db, inWanted === total ? rows : rows.filter((r) => wanted.has(r[3] as string)));
-  }
-  return toInputs(db, db.prepare(`SELECT ${COLUMNS} FROM BuildRecord WHERE ${ACTIVE} AND alloyKey IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY id`).raw(true).all(...alloyKeys) as unknown[][]);
+  const materials = await materialsOfAlloys(db, alloyKeys);
+  if (inWanted >= 0.6 * total) return scanInputs(db, materials, inWanted === total ? null : (alloy) => wanted.has(alloy));
+  const builder = new InputBuilder(materials);
+  for (const r of await db.all<RecordRow>(`SELECT ${COLUMNS} FROM "BuildRecord" WHERE ${ACTIVE} AND "alloyKey" IN (${alloyKeys.map(() => "?").join(",")}) ORDER BY "id"`, alloyKeys)) builder.add(r);
+  return builder.done(db);
 }
 
-/** Alloy and status of the given records (any status), for choosing what to load. */
-export function recordKeys(db: SqliteDatabase, ids: readonly number[]): { id: number; alloyKey: string; status: string }[] {
-  const out: { id: number; alloyKey: string; status: string }[] = [];
+type RecordKey = { id: number; alloyKey: string; status: string };
+
+/** Alloy and status of the given records (any status), in id order, for choosing what to load. */
+export async function recordKeys(db: SqlExecutor, ids: readonly number[]): Promise<RecordKey[]> {
+  const columns = `"id", "alloyKey" AS "alloyKey", "status"`;
   // An import's records have consecutive ids: one range query instead of hundreds of IN lists.
   if (ids.length > 500 && isConsecutive(ids)) {
-    return db.prepare(`SELECT id, alloyKey, status FROM BuildRecord WHERE id BETWEEN ? AND ?`).all(ids[0], ids[ids.length - 1]) as { id: number; alloyKey: string; status: string }[];
+    return db.all<RecordKey>(`SELECT ${columns} FROM "BuildRecord" WHERE "id" BETWEEN ? AND ? ORDER BY "id"`, [ids[0]!, ids[ids.length - 1]!]);
   }
+  const out: RecordKey[] = [];
   for (let i = 0; i < ids.length; i += 500) {
     const part = ids.slice(i, i + 500);
-    out.push(...(db.prepare(`SELECT id, alloyKey, status FROM BuildRecord WHERE id IN (${part.map(() => "?").join(",")})`).all(...part) as { id: number; alloyKey: string; status: string }[]));
+    out.push(...(await db.all<RecordKey>(`SELECT ${columns} FROM "BuildRecord" WHERE "id" IN (${part.map(() => "?").join(",")}) ORDER BY "id"`, part)));
   }
   return out;
 }
@@ -161,19 +228,48 @@ function isConsecutive(ids: readonly number[]): boolean {
   return true;
 }
 
+export type SourceAttributeRow = SourceAttributes & { id: number; title: string; version: number };
+
+const SOURCE_COLUMNS = `"id", "title", "version", "kind", "densityMethod", "outcomeEvidence", "machineStated", "spotSizeDefinition", "powderReported", "atmosphereReported",
+  "qualityOverride", "qualityOverrideReason"`;
+
+type RawSource = Omit<SourceAttributeRow, "machineStated" | "powderReported" | "atmosphereReported"> & { machineStated: unknown; powderReported: unknown; atmosphereReported: unknown };
+
+// BOOLEAN columns: true/false through sql.ts, 1/0 on the raw SQLite connection
+const truthy = (v: unknown) => v === true || v === 1;
+
+function sourceAttributes(rows: RawSource[]): Map<number, SourceAttributeRow> {
+  return new Map(rows.map((s) => [s.id, { ...s, machineStated: truthy(s.machineStated), powderReported: truthy(s.powderReported), atmosphereReported: truthy(s.atmosphereReported) }]));
+}
+
+const isRaw = (db: SqlExecutor | SqliteDatabase): db is SqliteDatabase => !("engine" in db);
+
 /** The attributes the source score reads, per source id. */
-export function loadSourceAttributes(db: SqliteDatabase, ids: readonly number[] | "all"): Map<number, SourceAttributes & { id: number; title: string; version: number }> {
-  const sql = `SELECT id, title, version, kind, densityMethod, outcomeEvidence, machineStated, spotSizeDefinition, powderReported, atmosphereReported, qualityOverride, qualityOverrideReason FROM Source`;
-  const rows = (ids === "all" ? db.prepare(sql).all() : ids.length ? db.prepare(`${sql} WHERE id IN (${ids.map(() => "?").join(",")})`).all(...ids) : []) as {
-    id: number; title: string; version: number; kind: string; densityMethod: string; outcomeEvidence: string; machineStated: number; spotSizeDefinition: string | null;
-    powderReported: number; atmosphereReported: number; qualityOverride: number | null; qualityOverrideReason: string | null;
-  }[];
-  return new Map(
-    rows.map((s) => [
-      s.id,
-      { ...s, machineStated: s.machineStated === 1, powderReported: s.powderReported === 1, atmosphereReported: s.atmosphereReported === 1 },
-    ]),
-  );
+export function loadSourceAttributes(db: SqlExecutor, ids: readonly number[] | "all"): Promise<Map<number, SourceAttributeRow>>;
+/** @deprecated Transitional: the raw SQLite connection, for the synchronous qualityScorer until bulk writes move to sql.ts. */
+export function loadSourceAttributes(db: SqliteDatabase, ids: readonly number[] | "all"): Map<number, SourceAttributeRow>;
+export function loadSourceAttributes(db: SqlExecutor | SqliteDatabase, ids: readonly number[] | "all"): Promise<Map<number, SourceAttributeRow>> | Map<number, SourceAttributeRow> {
+  const query = `SELECT ${SOURCE_COLUMNS} FROM "Source"`;
+  if (isRaw(db)) {
+    const rows = ids === "all" ? db.prepare(query).all() : ids.length ? db.prepare(`${query} WHERE "id" IN (${ids.map(() => "?").join(",")})`).all(...ids) : [];
+    return sourceAttributes(rows as RawSource[]);
+  }
+  return (async () => {
+    if (ids === "all") return sourceAttributes(await db.all<RawSource>(query));
+    const rows: RawSource[] = [];
+    for (let i = 0; i < ids.length; i += 500) {
+      const part = ids.slice(i, i + 500);
+      rows.push(...(await db.all<RawSource>(`${query} WHERE "id" IN (${part.map(() => "?").join(",")})`, part)));
+    }
+    return sourceAttributes(rows);
+  })();
+}
+
+/** How many records a source has, their mean quality, and who set its quality override. */
+export async function sourceQualityStats(db: SqlExecutor, sourceId: number): Promise<{ records: number; meanQuality: number | null; overriddenBy: string | null }> {
+  const stats = (await db.get<{ n: number; mean: number | null }>(`SELECT COUNT(*) AS n, AVG("qualityScore") AS mean FROM "BuildRecord" WHERE "sourceId" = ?`, [sourceId]))!;
+  const by = await db.get<{ name: string | null }>(`SELECT u."name" AS name FROM "Source" s LEFT JOIN "User" u ON u."id" = s."qualityOverrideById" WHERE s."id" = ?`, [sourceId]);
+  return { records: stats.n, meanQuality: stats.mean, overriddenBy: by?.name ?? null };
 }
 
 /** Column spellings of AlloyPropertyOverride.property (schema comment) and the domain's names. */
@@ -188,11 +284,12 @@ const PROPERTY_COLUMN: Record<string, PropertyName> = {
   absorptivity: "absorptivity",
 };
 
-/** Reviewer overrides of alloy properties, per alloy key; unknown property names and unusable values are skipped. */
-export function loadPropertyOverrides(db: SqliteDatabase): Map<string, PropertyOverrides> {
+type OverrideRow = { alloyKey: string; property: string; value: number; source: string };
+
+function propertyOverrides(rows: OverrideRow[]): Map<string, PropertyOverrides> {
   const out = new Map<string, PropertyOverrides>();
   const known = new Set<string>(Object.values(PROPERTY_COLUMN));
-  for (const r of db.prepare(`SELECT alloyKey, property, value, source FROM AlloyPropertyOverride`).all() as { alloyKey: string; property: string; value: number; source: string }[]) {
+  for (const r of rows) {
     const name = PROPERTY_COLUMN[r.property] ?? (known.has(r.property) ? (r.property as PropertyName) : undefined);
     if (!name || !(r.value > 0) || (name === "absorptivity" && r.value > 1)) continue;
     const o = out.get(r.alloyKey) ?? {};
@@ -202,14 +299,46 @@ export function loadPropertyOverrides(db: SqliteDatabase): Map<string, PropertyO
   return out;
 }
 
-/** Writes quality scores (caller's transaction). Does not touch version or updatedAt: a derived value, not an edit. */
-export function writeQualityScores(db: SqliteDatabase, scores: readonly (readonly [number, number])[]): void {
-  const s = db.prepare(`UPDATE BuildRecord SET qualityScore = ? WHERE id = ?`);
-  for (const [id, q] of scores) s.run(q, id);
+const OVERRIDES = `SELECT "alloyKey" AS "alloyKey", "property", "value", "source" FROM "AlloyPropertyOverride" ORDER BY "id"`;
+
+/** Reviewer overrides of alloy properties, per alloy key; unknown property names and unusable values are skipped. */
+export function loadPropertyOverrides(db: SqlExecutor): Promise<Map<string, PropertyOverrides>>;
+/** @deprecated Transitional: the raw SQLite connection, for the callers not yet on sql.ts (coverage, suggestions). */
+export function loadPropertyOverrides(db: SqliteDatabase): Map<string, PropertyOverrides>;
+export function loadPropertyOverrides(db: SqlExecutor | SqliteDatabase): Promise<Map<string, PropertyOverrides>> | Map<string, PropertyOverrides> {
+  if (isRaw(db)) return propertyOverrides(db.prepare(OVERRIDES).all() as OverrideRow[]);
+  return db.all<OverrideRow>(OVERRIDES).then(propertyOverrides);
 }
 
-/** Sends accepted records back to review (a new error flag opened on them); caller's transaction. */
-export function reopenAcceptedRecords(db: SqliteDatabase, ids: readonly number[], at: string): number[] {
-  const s = db.prepare(`UPDATE BuildRecord SET status = 'needs_review', version = version + 1, updatedAt = ? WHERE id = ? AND status = 'accepted'`);
-  return ids.filter((id) => s.run(at, id).changes === 1);
+/**
+ * Writes quality scores (caller's transaction). Does not touch version or updatedAt: a derived
+ * value, not an edit. One prepared UPDATE per row on SQLite; `UPDATE … FROM (VALUES …)` in chunks
+ * on PostgreSQL, where a round trip per record would take minutes over a whole collection.
+ */
+export async function writeQualityScores(db: SqlExecutor, scores: readonly (readonly [number, number])[]): Promise<void> {
+  if (db.engine === "sqlite") {
+    for (const [id, q] of scores) await db.run(`UPDATE "BuildRecord" SET "qualityScore" = ? WHERE "id" = ?`, [q, id]);
+    return;
+  }
+  for (let i = 0; i < scores.length; i += 1000) {
+    const part = scores.slice(i, i + 1000);
+    await db.run(
+      `UPDATE "BuildRecord" SET "qualityScore" = v.column2 FROM (VALUES ${part.map(() => "(CAST(? AS INTEGER), CAST(? AS DOUBLE PRECISION))").join(", ")}) AS v WHERE "BuildRecord"."id" = v.column1`,
+      part.flatMap(([id, q]) => [id, q]),
+    );
+  }
+}
+
+/** Sends accepted records back to review (a new error flag opened on them); caller's transaction. The ids changed. */
+export async function reopenAcceptedRecords(db: SqlExecutor, ids: readonly number[], at: string): Promise<number[]> {
+  const out: number[] = [];
+  for (let i = 0; i < ids.length; i += 500) {
+    const part = ids.slice(i, i + 500);
+    const rows = await db.all<{ id: number }>(
+      `UPDATE "BuildRecord" SET "status" = 'needs_review', "version" = "version" + 1, "updatedAt" = ? WHERE "id" IN (${part.map(() => "?").join(",")}) AND "status" = 'accepted' RETURNING "id"`,
+      [at, ...part],
+    );
+    out.push(...rows.map((r) => r.id));
+  }
+  return out.sort((a, b) => a - b);
 }

@@ -1,4 +1,4 @@
-import type { SqliteDatabase } from "./connection";
+import type { SqlExecutor } from "./sql";
 
 export type PairVerdict = "distinct" | "merged";
 
@@ -18,19 +18,27 @@ export function pairKey(a: number, b: number): string {
 }
 
 /** Every pair a reviewer marked distinct, as pairKey strings. The table holds only decisions, so it stays small. */
-export function distinctPairKeys(db: SqliteDatabase): Set<string> {
-  const rows = db.prepare(`SELECT recordAId AS a, recordBId AS b FROM PairDecision WHERE decision = 'distinct'`).all() as { a: number; b: number }[];
+export async function distinctPairKeys(db: SqlExecutor): Promise<Set<string>> {
+  const rows = await db.all<{ a: number; b: number }>(`SELECT "recordAId" AS a, "recordBId" AS b FROM "PairDecision" WHERE "decision" = 'distinct'`);
   return new Set(rows.map((r) => pairKey(r.a, r.b)));
 }
 
-export function getPairDecision(db: SqliteDatabase, a: number, b: number): PairDecisionRow | null {
+export async function getPairDecision(db: SqlExecutor, a: number, b: number): Promise<PairDecisionRow | null> {
   const [x, y] = a < b ? [a, b] : [b, a];
-  return (db.prepare(`SELECT * FROM PairDecision WHERE recordAId = ? AND recordBId = ?`).get(x, y) as PairDecisionRow | undefined) ?? null;
+  return (
+    (await db.get<PairDecisionRow>(
+      `SELECT "id", "recordAId", "recordBId", "decision", "reason", "decidedById", "decidedAt" FROM "PairDecision" WHERE "recordAId" = ? AND "recordBId" = ?`,
+      [x, y],
+    )) ?? null
+  );
 }
 
 /** Records a verdict inside the caller's transaction; null when the pair already has one. */
-export function insertPairDecision(db: SqliteDatabase, d: { a: number; b: number; decision: PairVerdict; reason: string | null; actorId: number | null; at: string }): number | null {
+export async function insertPairDecision(db: SqlExecutor, d: { a: number; b: number; decision: PairVerdict; reason: string | null; actorId: number | null; at: string }): Promise<number | null> {
   const [x, y] = d.a < d.b ? [d.a, d.b] : [d.b, d.a];
-  const r = db.prepare(`INSERT INTO PairDecision (recordAId, recordBId, decision, reason, decidedById, decidedAt) VALUES (?, ?, ?, ?, ?, ?) ON CONFLICT (recordAId, recordBId) DO NOTHING`).run(x, y, d.decision, d.reason, d.actorId, d.at);
-  return r.changes ? Number(r.lastInsertRowid) : null;
+  const r = await db.run(
+    `INSERT INTO "PairDecision" ("recordAId", "recordBId", "decision", "reason", "decidedById", "decidedAt") VALUES (?, ?, ?, ?, ?, ?) ON CONFLICT ("recordAId", "recordBId") DO NOTHING RETURNING "id"`,
+    [x, y, d.decision, d.reason, d.actorId, d.at],
+  );
+  return r.changes ? r.lastInsertId : null;
 }

@@ -47,8 +47,9 @@ export async function checkSettingsVersion(id: number, db: SqlExecutor = sql()):
 }
 
 /**
- * currentCheckSettings on the raw SQLite connection, for the callers that still run synchronously
- * on it (they move to currentCheckSettings with the rest of lib/server).
+ * TRANSITIONAL: currentCheckSettings on the raw SQLite connection, for the callers that still run
+ * synchronously on it (coverage, suggestions, and qualityScorer for the bulk writers); they move to
+ * currentCheckSettings with the rest of lib/server.
  */
 export function currentCheckSettingsSync(db: SqliteDatabase = sqlite()): SettingsVersionInfo {
   const latest = () =>
@@ -62,21 +63,6 @@ export function currentCheckSettingsSync(db: SqliteDatabase = sqlite()): Setting
     })();
     row = latest()!;
   }
-  let value: unknown = {};
-  try {
-    value = JSON.parse(row.value);
-  } catch {
-    value = {};
-  }
-  return infoOf({ ...row, value });
-}
-
-/** checkSettingsVersion on the raw SQLite connection (see currentCheckSettingsSync). */
-export function checkSettingsVersionSync(id: number, db: SqliteDatabase = sqlite()): SettingsVersionInfo | null {
-  const row = db.prepare(`SELECT s.id, s.key, s.value, s.createdById, u.name AS createdByName, s.createdAt FROM SettingsVersion s LEFT JOIN User u ON u.id = s.createdById WHERE s.key = ? AND s.id = ?`).get(CHECK_SETTINGS_KEY, id) as
-    | { id: number; key: string; value: string; createdById: number | null; createdByName: string | null; createdAt: string }
-    | undefined;
-  if (!row) return null;
   let value: unknown = {};
   try {
     value = JSON.parse(row.value);

@@ -2,7 +2,6 @@
  * Use case: list flags for scripted triage and for the queue's side panels.
  */
 import { z } from "zod";
-import { sqlite } from "../db/connection";
 import { listFlags as listFlagRows, openFlagCounts, type FlagCounts, type FlagListRow } from "../db/flags";
 import { sql } from "../db/sql";
 import { guard, invalid, ok, type Result } from "./result";
@@ -67,7 +66,7 @@ export async function listFlags(input: unknown): Promise<Result<FlagJson[]>> {
   return guard(async () => {
     const parsed = filterSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The filter needs attention.");
-    return ok(listFlagRows(sqlite(), parsed.data).map(toFlagJson));
+    return ok((await listFlagRows(sql(), parsed.data)).map(toFlagJson));
   });
 }
 

@@ -584,7 +584,7 @@ async function commitOn(db: SqliteDatabase, input: TableInput, options: ImportOp
       options.onProgress?.({ phase: "checking", rowsRead: analysis.rowCount, rowsWritten: imported, rowsTotal: imported });
       await yieldToLoop();
       // the records are committed; a failure here is logged and left to `meltledger check`
-      const summary = checksAfterSave(writer.ids.map((r) => r.id));
+      const summary = await checksAfterSave(writer.ids.map((r) => r.id));
       if (summary) checks = { opened: summary.opened + summary.reopened, openByCode: summary.openByCode, ms: summary.ms };
     }
     options.onProgress?.({ phase: "done", rowsRead: analysis.rowCount, rowsWritten: imported, rowsTotal: imported });

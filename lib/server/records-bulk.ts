@@ -153,7 +153,7 @@ export async function insertRecordsBulk(inputs: readonly unknown[], actor: Actor
       return fail("invalid_input", `Source ${result.missingSource} does not exist; nothing was written.`, { fieldErrors: { sourceId: [`Source ${result.missingSource} does not exist.`] } });
     }
     // Checks: flags and quality scores of the new records, after the write has committed.
-    if (!options.deferChecks) checksAfterSave(result.ids);
+    if (!options.deferChecks) await checksAfterSave(result.ids);
     return ok(result);
   });
 }

@@ -37,7 +37,7 @@ export async function createRecord(input: unknown, actor: Actor): Promise<Result
       return record;
     });
     // Checks: flags and quality score of the new record, after the write has committed.
-    checksAfterSave([created.id]);
+    await checksAfterSave([created.id]);
     return ok({ id: created.id, version: created.version });
   });
 }
@@ -76,7 +76,7 @@ export async function updateRecord(input: unknown, actor: Actor): Promise<Result
       return after;
     });
     // Checks: re-judge the edited record (and its duplicate pairs), after the write has committed.
-    checksAfterSave([saved.id]);
+    await checksAfterSave([saved.id]);
     return ok({ id: saved.id, version: saved.version });
   });
 }

@@ -7,9 +7,9 @@ import { z } from "zod";
 import { RULE_CATALOGUE, ruleInfo } from "../domain/checks/index";
 import { CHECKED_FIELDS } from "../domain/checks/fields";
 import { CANONICAL_UNIT } from "../domain/units";
-import { sqlite, type SqliteDatabase } from "../db/connection";
 import { openFlagCounts, openFlagsOfRecord, reviewQueuePage, type FlagCounts } from "../db/flags";
-import { sql } from "../db/sql";
+import { queueRecord } from "../db/reviews";
+import { sql, type SqlExecutor } from "../db/sql";
 import { guard, invalid, ok, type Result } from "./result";
 
 export interface QueueValue {
@@ -73,37 +73,8 @@ export interface ReviewQueue {
   ruleTitles: Record<string, string>;
 }
 
-interface RawRecord {
-  id: number;
-  version: number;
-  status: string;
-  alloyKey: string;
-  designation: string | null;
-  outcome: string;
-  outcomeText: string | null;
-  machine: string | null;
-  atmosphere: string | null;
-  qualityScore: number | null;
-  volumetricEnergyJMm3: number | null;
-  sourceId: number;
-  sourceTitle: string;
-  sourceYear: number | null;
-  sourceDoi: string | null;
-  locationPage: number | null;
-  locationLabel: string | null;
-  importFile: string | null;
-  importRow: number | null;
-  enteredValues: string;
-  [key: string]: unknown;
-}
-
-function recordView(db: SqliteDatabase, id: number): QueueRecordView | null {
-  const r = db
-    .prepare(
-      `SELECT r.*, m.designation AS designation, s.title AS sourceTitle, s.year AS sourceYear, s.doi AS sourceDoi
-       FROM BuildRecord r JOIN Source s ON s.id = r.sourceId LEFT JOIN Material m ON m.id = r.materialId WHERE r.id = ?`,
-    )
-    .get(id) as RawRecord | undefined;
+async function recordView(db: SqlExecutor, id: number): Promise<QueueRecordView | null> {
+  const r = await queueRecord(db, id);
   if (!r) return null;
   let entered: Record<string, { text: string; unit: string; provenance?: string }> = {};
   try {
@@ -145,36 +116,39 @@ export async function getReviewQueue(input: unknown): Promise<Result<ReviewQueue
     const parsed = querySchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The queue filter needs attention.");
     const { code, sourceId, page, pageSize } = parsed.data;
-    const db = sqlite();
-    const { recordIds, total } = reviewQueuePage(db, { codePrefix: code, sourceId, offset: page * pageSize, limit: pageSize });
-    const items: QueueItem[] = [];
-    for (const id of recordIds) {
-      const record = recordView(db, id);
-      if (!record) continue;
-      const flags = openFlagsOfRecord(db, id)
-        .filter((f) => !code || f.ruleCode.startsWith(code))
-        .map((f): QueueFlagView => {
-          const info = ruleInfo(f.ruleCode);
-          const fix = f.details.suggestedFix as { field?: unknown; value?: unknown; unit?: unknown } | undefined;
-          return {
-            id: f.id, version: f.version, ruleCode: f.ruleCode, severity: (f.severity as QueueFlagView["severity"]) ?? "warning", message: f.message, details: f.details,
-            title: info?.title ?? f.ruleCode, explanation: info?.description ?? "", ruleSource: info?.source ?? "",
-            relatedRecordId: f.relatedRecordId,
-            suggestedFix: fix && typeof fix.field === "string" && typeof fix.value === "string" ? { field: fix.field, value: fix.value, unit: typeof fix.unit === "string" ? fix.unit : "" } : null,
-            isPair: PAIR_CODES.has(f.ruleCode) && f.relatedRecordId !== null,
-            settingsVersion: f.settingsVersion,
-          };
-        });
-      const related: Record<number, QueueRecordView> = {};
-      for (const f of flags) {
-        if (f.relatedRecordId !== null && !related[f.relatedRecordId]) {
-          const other = recordView(db, f.relatedRecordId);
-          if (other) related[f.relatedRecordId] = other;
+    // one snapshot: the page, its records and flags, and the counts agree with each other
+    const read = async (db: SqlExecutor): Promise<Result<ReviewQueue>> => {
+      const { recordIds, total } = await reviewQueuePage(db, { codePrefix: code, sourceId, offset: page * pageSize, limit: pageSize });
+      const items: QueueItem[] = [];
+      for (const id of recordIds) {
+        const record = await recordView(db, id);
+        if (!record) continue;
+        const flags = (await openFlagsOfRecord(db, id))
+          .filter((f) => !code || f.ruleCode.startsWith(code))
+          .map((f): QueueFlagView => {
+            const info = ruleInfo(f.ruleCode);
+            const fix = f.details.suggestedFix as { field?: unknown; value?: unknown; unit?: unknown } | undefined;
+            return {
+              id: f.id, version: f.version, ruleCode: f.ruleCode, severity: (f.severity as QueueFlagView["severity"]) ?? "warning", message: f.message, details: f.details,
+              title: info?.title ?? f.ruleCode, explanation: info?.description ?? "", ruleSource: info?.source ?? "",
+              relatedRecordId: f.relatedRecordId,
+              suggestedFix: fix && typeof fix.field === "string" && typeof fix.value === "string" ? { field: fix.field, value: fix.value, unit: typeof fix.unit === "string" ? fix.unit : "" } : null,
+              isPair: PAIR_CODES.has(f.ruleCode) && f.relatedRecordId !== null,
+              settingsVersion: f.settingsVersion,
+            };
+          });
+        const related: Record<number, QueueRecordView> = {};
+        for (const f of flags) {
+          if (f.relatedRecordId !== null && !related[f.relatedRecordId]) {
+            const other = await recordView(db, f.relatedRecordId);
+            if (other) related[f.relatedRecordId] = other;
+          }
         }
+        items.push({ record, flags, related });
       }
-      items.push({ record, flags, related });
-    }
-    const ruleTitles = Object.fromEntries(RULE_CATALOGUE.map((r) => [r.code, r.title]));
-    return ok({ items, total, page, pageSize, filter: { code, sourceId }, counts: await openFlagCounts(sql()), ruleTitles });
+      const ruleTitles = Object.fromEntries(RULE_CATALOGUE.map((r) => [r.code, r.title]));
+      return ok({ items, total, page, pageSize, filter: { code, sourceId }, counts: await openFlagCounts(db), ruleTitles });
+    };
+    return sql().transaction(read, { readOnly: true });
   });
 }

@@ -2,26 +2,29 @@
  * Use cases of the review queue: act on a flag (waive, fix, reject the record, merge or separate a
  * duplicate pair), accept a record, the same on a selection, and override a source's quality.
  *
- * Every action is one transaction on the raw connection: the version the reviewer saw is checked
- * (a second reviewer gets a conflict naming who acted, never a lost update), the change and its
- * audit event are written together, and the checks of the records concerned run inside it.
+ * Every action is one writing transaction (sql().transaction, either engine): the version the
+ * reviewer saw is checked (a second reviewer gets a conflict naming who acted, never a lost
+ * update), the change and its audit event are written together, and the checks of the records
+ * concerned run inside it (runChecksIn). The bodies do database work only, so PostgreSQL may run
+ * them again after a serialization failure. A waiver, which changes the flag alone, is one atomic
+ * write of the flag and its audit event (setFlagStateAudited) after one read.
  * Bad input (an unknown flag, a stale version, a missing reason) comes back as an error and
  * changes nothing.
  */
 import { DUPLICATE_CODES } from "../domain/checks/index";
 import { checkHardLimit, parseQuantity } from "../domain/units";
 import { energyDensities } from "../domain/energy-density";
-import { appendAuditRaw } from "../db/audit-raw";
-import { sqlite, type SqliteDatabase } from "../db/connection";
-import { getFlag, openFlagsOfRecord, recordsWithOpenFlagsRelatedTo, setFlagStateIfVersion, type FlagRow } from "../db/flags";
+import { appendAuditEvent } from "../db/audit-raw";
+import { getFlag, getFlagForAction, openFlagsOfRecord, recordsWithOpenFlagsRelatedTo, setFlagStateAudited, setFlagStateIfVersion, type FlagRow } from "../db/flags";
 import { getPairDecision, insertPairDecision } from "../db/pairs";
-import { getReviewRecord, recordIdsOfSource, setSourceQualityOverrideIfVersion, updateRecordIfVersionRaw, type ReviewRecordRow } from "../db/reviews";
+import { getReviewRecord, getSourceOverride, recordIdsOfSource, setSourceQualityOverrideIfVersion, updateRecordIfVersion, type ReviewRecordRow } from "../db/reviews";
+import { sql, type SqlExecutor, type SqlValue } from "../db/sql";
 import { canonicalKeyOf, normalizeQuantities, RECORD_QUANTITY_FIELDS, RECORD_QUANTITY_FIELD_NAMES, type RecordQuantityField } from "../schemas/record";
 import { acceptRecordSchema, bulkFlagActionSchema, flagActionSchema, type FlagAction } from "../schemas/review";
 import { sourceQualityOverrideSchema } from "../schemas/review";
 import { requireRole, type Actor } from "./actor";
 import { isoNow } from "./check-settings";
-import { runChecksSync, type CheckRunSummary } from "./checks";
+import { runChecksIn, type CheckRunSummary } from "./checks";
 import { AppFailure, fail, guard, invalid, ok, type Result } from "./result";
 
 export interface FlagActionResult {
@@ -48,11 +51,14 @@ function describeState(f: FlagRow): string {
   return `${f.state}${f.resolution ? ` (${f.resolution})` : ""}${f.resolvedAt ? ` at ${f.resolvedAt}` : ""}`;
 }
 
-function loadFlagForAction(db: SqliteDatabase, flagId: number, version: number | null): FlagRow {
-  const flag = getFlag(db, flagId);
+type ActionFlag = NonNullable<Awaited<ReturnType<typeof getFlagForAction>>>;
+
+/** The flag as the reviewer saw it, or a failure: not found, changed since (naming who acted), no longer open. */
+async function loadFlagForAction(db: SqlExecutor, flagId: number, version: number | null): Promise<ActionFlag> {
+  const flag = await getFlagForAction(db, flagId);
   if (!flag) failure("not_found", `There is no flag ${flagId}.`);
   if (version !== null && flag.version !== version) {
-    const who = flag.resolvedById !== null ? (db.prepare(`SELECT name FROM User WHERE id = ?`).get(flag.resolvedById) as { name: string } | undefined)?.name : undefined;
+    const who = flag.resolvedByName;
     failure(
       "conflict",
       `Flag ${flagId} changed since you loaded it (you saw version ${version}, it is now version ${flag.version}, ${describeState(flag)}${who ? ` by ${who}` : ""}). Nothing was changed; reload to see it.`,
@@ -63,23 +69,28 @@ function loadFlagForAction(db: SqliteDatabase, flagId: number, version: number |
   return flag;
 }
 
-function recordOf(db: SqliteDatabase, flag: FlagRow): ReviewRecordRow {
+async function recordOf(db: SqlExecutor, flag: FlagRow): Promise<ReviewRecordRow> {
   if (flag.recordId === null) failure("invalid_input", `Flag ${flag.id} belongs to no record.`);
-  const rec = getReviewRecord(db, flag.recordId);
+  const rec = await getReviewRecord(db, flag.recordId);
   if (!rec) failure("not_found", `Record ${flag.recordId} of flag ${flag.id} does not exist.`);
   return rec;
 }
 
-function audit(db: SqliteDatabase, actor: Actor, action: string, entityType: string, entityId: number | string, before: unknown, after: unknown, reason: string | null, at: string) {
-  appendAuditRaw(db, { actorId: actor.id, actorName: actor.name, action, entityType, entityId, before, after, reason, at });
+function audit(db: SqlExecutor, actor: Actor, action: string, entityType: string, entityId: number | string, before: unknown, after: unknown, reason: string | null, at: string): Promise<void> {
+  return appendAuditEvent(db, { actorId: actor.id, actorName: actor.name, action, entityType, entityId, before, after, reason, at });
+}
+
+/** The flag changed between reading and writing it (only when the version was not given). */
+function lostRace(flagId: number): never {
+  failure("conflict", `Flag ${flagId} changed while saving; nothing was changed. Reload and try again.`);
 }
 
 /** Resolves the open flags of a record (apart from `except`) with the record's fate, audited. */
-function closeRecordFlags(db: SqliteDatabase, recordId: number, resolution: string, reason: string | null, actor: Actor, at: string, except: number): void {
-  for (const f of openFlagsOfRecord(db, recordId)) {
+async function closeRecordFlags(db: SqlExecutor, recordId: number, resolution: string, reason: string | null, actor: Actor, at: string, except: number): Promise<void> {
+  for (const f of await openFlagsOfRecord(db, recordId)) {
     if (f.id === except) continue;
-    if (setFlagStateIfVersion(db, f.id, f.version, { state: "resolved", resolution, reason, actorId: actor.id, at })) {
-      audit(db, actor, resolution, "flag", f.id, { state: "open" }, { state: "resolved", resolution }, reason, at);
+    if (await setFlagStateIfVersion(db, f.id, f.version, { state: "resolved", resolution, reason, actorId: actor.id, at })) {
+      await audit(db, actor, resolution, "flag", f.id, { state: "open" }, { state: "resolved", resolution }, reason, at);
     }
   }
 }
@@ -94,7 +105,7 @@ function parseEntered(text: string): Partial<Record<RecordQuantityField, { text:
 }
 
 /** The record columns a corrected value changes: its canonical value, what was entered, and E_v. */
-function fixedColumns(rec: ReviewRecordRow, field: RecordQuantityField, value: string, unit: string): Record<string, unknown> {
+function fixedColumns(rec: ReviewRecordRow, field: RecordQuantityField, value: string, unit: string): Record<string, SqlValue> {
   const quantity = RECORD_QUANTITY_FIELDS[field];
   const parsed = parseQuantity(unit ? `${value} ${unit}` : value, quantity);
   if (!parsed.ok) failure("invalid_input", parsed.message, { fieldErrors: { "fix.value": [parsed.message] } });
@@ -119,79 +130,113 @@ function suggestedFixOf(flag: FlagRow): { field: RecordQuantityField; value: str
 
 type ParsedAction = ReturnType<typeof flagActionSchema.parse>;
 
-function act(db: SqliteDatabase, input: ParsedAction, actor: Actor): FlagActionResult {
-  return db.transaction((): FlagActionResult => {
-    const at = isoNow();
-    const flag = loadFlagForAction(db, input.flagId, input.version);
-    const rec = recordOf(db, flag);
-    if (rec.status === "rejected" || rec.status === "merged") failure("conflict", `Record ${rec.id} is ${rec.status}; its flags can no longer be acted on.`);
-    const reason = input.reason;
-    let checks: CheckRunSummary | null = null;
-    let resolved = true;
-    switch (input.action) {
-      case "waive": {
-        setFlagStateIfVersion(db, flag.id, flag.version, { state: "waived", resolution: "waive", reason, actorId: actor.id, at });
-        audit(db, actor, "waive", "flag", flag.id, { state: "open", ruleCode: flag.ruleCode, recordId: rec.id }, { state: "waived" }, reason, at);
-        break;
+/** Refuses an action on a flag whose record is gone, rejected or merged. */
+function requireActionable(flag: ActionFlag): void {
+  if (flag.recordId === null) failure("invalid_input", `Flag ${flag.id} belongs to no record.`);
+  if (flag.recordStatus === null) failure("not_found", `Record ${flag.recordId} of flag ${flag.id} does not exist.`);
+  if (flag.recordStatus === "rejected" || flag.recordStatus === "merged") failure("conflict", `Record ${flag.recordId} is ${flag.recordStatus}; its flags can no longer be acted on.`);
+}
+
+/**
+ * A waiver changes the flag alone (no record, no re-check): one read to check what the reviewer
+ * saw, then the change and its audit event in one atomic write (setFlagStateAudited), which lands
+ * only if the flag is still open at that version. Kept this lean because reviewers waive in bulk
+ * and many at once.
+ */
+async function waiveFlag(input: ParsedAction, actor: Actor): Promise<FlagActionResult> {
+  const db = sql();
+  const flag = await loadFlagForAction(db, input.flagId, input.version);
+  requireActionable(flag);
+  const at = isoNow();
+  const done = await setFlagStateAudited(db, flag.id, flag.version, { state: "waived", resolution: "waive", reason: input.reason, actorId: actor.id, at }, {
+    actorId: actor.id, actorName: actor.name, action: "waive", entityType: "flag", entityId: flag.id,
+    before: { state: "open", ruleCode: flag.ruleCode, recordId: flag.recordId }, after: { state: "waived" }, reason: input.reason,
+  });
+  if (!done) {
+    // someone acted between the read and the write: say who and what, as for a stale version
+    requireActionable(await loadFlagForAction(db, flag.id, flag.version));
+    lostRace(flag.id);
+  }
+  return {
+    flagId: flag.id, action: "waive", state: "waived", resolution: "waive", recordId: flag.recordId, recordStatus: flag.recordStatus, recordVersion: flag.recordVersion, resolved: true, checks: null,
+  };
+}
+
+/** One action on one flag; a waiver goes its own lean way, every other action is one transaction. */
+function actOnFlag(input: ParsedAction, actor: Actor): Promise<FlagActionResult> {
+  return input.action === "waive" ? waiveFlag(input, actor) : sql().transaction((tx) => act(tx, input, actor));
+}
+
+async function act(db: SqlExecutor, input: ParsedAction, actor: Actor): Promise<FlagActionResult> {
+  const at = isoNow();
+  const flag = await loadFlagForAction(db, input.flagId, input.version);
+  requireActionable(flag);
+  const reason = input.reason;
+  const rec = await recordOf(db, flag);
+  let checks: CheckRunSummary | null = null;
+  let resolved = true;
+  switch (input.action) {
+    case "waive":
+      throw new RangeError("act: a waiver goes through waiveFlag");
+    case "fix": {
+      if (input.recordVersion !== null && input.recordVersion !== rec.version) {
+        failure("conflict", `Record ${rec.id} was saved after you loaded it (you saw version ${input.recordVersion}, it is now version ${rec.version}). Nothing was changed; reload to see it.`, { currentVersion: rec.version });
       }
-      case "fix": {
-        if (input.recordVersion !== null && input.recordVersion !== rec.version) {
-          failure("conflict", `Record ${rec.id} was saved after you loaded it (you saw version ${input.recordVersion}, it is now version ${rec.version}). Nothing was changed; reload to see it.`, { currentVersion: rec.version });
-        }
-        const fix = input.fix ?? suggestedFixOf(flag);
-        if (!fix) failure("invalid_input", `Flag ${flag.id} (${flag.ruleCode}) has no suggested fix: give the field, the corrected value and its unit.`, { fieldErrors: { "fix.value": ["Enter the corrected value."] } });
-        const set = fixedColumns(rec, fix.field, fix.value, fix.unit);
-        if (!updateRecordIfVersionRaw(db, rec.id, rec.version, set, actor.id, at)) failure("conflict", `Record ${rec.id} changed while saving; nothing was changed. Reload and try again.`);
-        const entered = parseEntered(rec.enteredValues)[fix.field];
-        audit(db, actor, "update", "record", rec.id, { [fix.field]: entered ?? null }, { [fix.field]: { text: fix.value, unit: fix.unit } }, reason ?? `fixed from review (flag ${flag.id}, ${flag.ruleCode})`, at);
-        checks = runChecksSync([rec.id], { actor, fixedFlag: { id: flag.id, reason: reason ?? `${fix.field} set to ${fix.value} ${fix.unit}`.trim() } }, db);
-        const after = getFlag(db, flag.id)!;
-        resolved = after.state !== "open";
-        audit(db, actor, "fix", "flag", flag.id, { state: "open" }, { state: after.state, resolution: after.resolution }, reason, at);
-        break;
+      const fix = input.fix ?? suggestedFixOf(flag);
+      if (!fix) failure("invalid_input", `Flag ${flag.id} (${flag.ruleCode}) has no suggested fix: give the field, the corrected value and its unit.`, { fieldErrors: { "fix.value": ["Enter the corrected value."] } });
+      const set = fixedColumns(rec, fix.field, fix.value, fix.unit);
+      if (!(await updateRecordIfVersion(db, rec.id, rec.version, set, actor.id, at))) failure("conflict", `Record ${rec.id} changed while saving; nothing was changed. Reload and try again.`);
+      const entered = parseEntered(rec.enteredValues)[fix.field];
+      await audit(db, actor, "update", "record", rec.id, { [fix.field]: entered ?? null }, { [fix.field]: { text: fix.value, unit: fix.unit } }, reason ?? `fixed from review (flag ${flag.id}, ${flag.ruleCode})`, at);
+      checks = await runChecksIn(db, [rec.id], { actor, fixedFlag: { id: flag.id, reason: reason ?? `${fix.field} set to ${fix.value} ${fix.unit}`.trim() } });
+      const after = (await getFlag(db, flag.id))!;
+      resolved = after.state !== "open";
+      await audit(db, actor, "fix", "flag", flag.id, { state: "open" }, { state: after.state, resolution: after.resolution }, reason, at);
+      break;
+    }
+    case "reject": {
+      if (!(await updateRecordIfVersion(db, rec.id, input.recordVersion ?? rec.version, { status: "rejected" }, actor.id, at))) {
+        failure("conflict", `Record ${rec.id} was saved after you loaded it (now version ${rec.version}). Nothing was changed; reload to see it.`, { currentVersion: rec.version });
       }
-      case "reject": {
-        if (!updateRecordIfVersionRaw(db, rec.id, input.recordVersion ?? rec.version, { status: "rejected" }, actor.id, at)) {
+      await audit(db, actor, "reject", "record", rec.id, { status: rec.status }, { status: "rejected" }, reason, at);
+      if (!(await setFlagStateIfVersion(db, flag.id, flag.version, { state: "resolved", resolution: "reject", reason, actorId: actor.id, at }))) lostRace(flag.id);
+      await audit(db, actor, "reject", "flag", flag.id, { state: "open" }, { state: "resolved", resolution: "reject" }, reason, at);
+      await closeRecordFlags(db, rec.id, "reject", reason, actor, at, flag.id);
+      const affected = await recordsWithOpenFlagsRelatedTo(db, [rec.id], DUPLICATE_CODES);
+      if (affected.length) checks = await runChecksIn(db, affected, { actor });
+      break;
+    }
+    case "merge":
+    case "distinct": {
+      if (!DUPLICATES.has(flag.ruleCode) || flag.relatedRecordId === null) {
+        failure("invalid_input", `Flag ${flag.id} (${flag.ruleCode}) is not a duplicate pair; ${input.action} applies to duplicate and label-conflict flags only.`);
+      }
+      const other = await getReviewRecord(db, flag.relatedRecordId);
+      if (!other) failure("not_found", `Record ${flag.relatedRecordId} of the pair does not exist.`);
+      const existing = await getPairDecision(db, rec.id, other.id);
+      if (existing) failure("conflict", `Records ${Math.min(rec.id, other.id)} and ${Math.max(rec.id, other.id)} were already marked ${existing.decision} at ${existing.decidedAt}; nothing was changed.`);
+      if (input.action === "merge" && (other.status === "rejected" || other.status === "merged")) {
+        failure("conflict", `Record ${other.id} is ${other.status}; merge into a record that is still in the collection.`);
+      }
+      await insertPairDecision(db, { a: rec.id, b: other.id, decision: input.action === "merge" ? "merged" : "distinct", reason, actorId: actor.id, at });
+      if (!(await setFlagStateIfVersion(db, flag.id, flag.version, { state: "resolved", resolution: input.action, reason, actorId: actor.id, at }))) lostRace(flag.id);
+      await audit(db, actor, input.action, "flag", flag.id, { state: "open", pair: [other.id, rec.id] }, { state: "resolved", resolution: input.action }, reason, at);
+      if (input.action === "merge") {
+        if (!(await updateRecordIfVersion(db, rec.id, input.recordVersion ?? rec.version, { status: "merged", mergedIntoId: other.id }, actor.id, at))) {
           failure("conflict", `Record ${rec.id} was saved after you loaded it (now version ${rec.version}). Nothing was changed; reload to see it.`, { currentVersion: rec.version });
         }
-        audit(db, actor, "reject", "record", rec.id, { status: rec.status }, { status: "rejected" }, reason, at);
-        setFlagStateIfVersion(db, flag.id, flag.version, { state: "resolved", resolution: "reject", reason, actorId: actor.id, at });
-        audit(db, actor, "reject", "flag", flag.id, { state: "open" }, { state: "resolved", resolution: "reject" }, reason, at);
-        closeRecordFlags(db, rec.id, "reject", reason, actor, at, flag.id);
-        const affected = recordsWithOpenFlagsRelatedTo(db, [rec.id], DUPLICATE_CODES);
-        if (affected.length) checks = runChecksSync(affected, { actor }, db);
-        break;
+        await audit(db, actor, "merge", "record", rec.id, { status: rec.status, mergedIntoId: null }, { status: "merged", mergedIntoId: other.id }, reason, at);
+        await closeRecordFlags(db, rec.id, "merge", reason ?? `merged into record ${other.id}`, actor, at, flag.id);
+        checks = await runChecksIn(db, [other.id, ...(await recordsWithOpenFlagsRelatedTo(db, [rec.id], DUPLICATE_CODES))], { actor });
+      } else {
+        checks = await runChecksIn(db, [rec.id], { actor });
       }
-      case "merge":
-      case "distinct": {
-        if (!DUPLICATES.has(flag.ruleCode) || flag.relatedRecordId === null) {
-          failure("invalid_input", `Flag ${flag.id} (${flag.ruleCode}) is not a duplicate pair; ${input.action} applies to duplicate and label-conflict flags only.`);
-        }
-        const other = getReviewRecord(db, flag.relatedRecordId);
-        if (!other) failure("not_found", `Record ${flag.relatedRecordId} of the pair does not exist.`);
-        const existing = getPairDecision(db, rec.id, other.id);
-        if (existing) failure("conflict", `Records ${Math.min(rec.id, other.id)} and ${Math.max(rec.id, other.id)} were already marked ${existing.decision} at ${existing.decidedAt}; nothing was changed.`);
-        insertPairDecision(db, { a: rec.id, b: other.id, decision: input.action === "merge" ? "merged" : "distinct", reason, actorId: actor.id, at });
-        setFlagStateIfVersion(db, flag.id, flag.version, { state: "resolved", resolution: input.action, reason, actorId: actor.id, at });
-        audit(db, actor, input.action, "flag", flag.id, { state: "open", pair: [other.id, rec.id] }, { state: "resolved", resolution: input.action }, reason, at);
-        if (input.action === "merge") {
-          if (other.status === "rejected" || other.status === "merged") failure("conflict", `Record ${other.id} is ${other.status}; merge into a record that is still in the collection.`);
-          if (!updateRecordIfVersionRaw(db, rec.id, input.recordVersion ?? rec.version, { status: "merged", mergedIntoId: other.id }, actor.id, at)) {
-            failure("conflict", `Record ${rec.id} was saved after you loaded it (now version ${rec.version}). Nothing was changed; reload to see it.`, { currentVersion: rec.version });
-          }
-          audit(db, actor, "merge", "record", rec.id, { status: rec.status, mergedIntoId: null }, { status: "merged", mergedIntoId: other.id }, reason, at);
-          closeRecordFlags(db, rec.id, "merge", reason ?? `merged into record ${other.id}`, actor, at, flag.id);
-          checks = runChecksSync([other.id, ...recordsWithOpenFlagsRelatedTo(db, [rec.id], DUPLICATE_CODES)], { actor }, db);
-        } else {
-          checks = runChecksSync([rec.id], { actor }, db);
-        }
-        break;
-      }
+      break;
     }
-    const after = getFlag(db, flag.id)!;
-    const recAfter = getReviewRecord(db, rec.id)!;
-    return { flagId: flag.id, action: input.action, state: after.state, resolution: after.resolution, recordId: rec.id, recordStatus: recAfter.status, recordVersion: recAfter.version, resolved, checks };
-  })();
+  }
+  const after = (await getFlag(db, flag.id))!;
+  const recAfter = (await getReviewRecord(db, rec.id))!;
+  return { flagId: flag.id, action: input.action, state: after.state, resolution: after.resolution, recordId: rec.id, recordStatus: recAfter.status, recordVersion: recAfter.version, resolved, checks };
 }
 
 /**
@@ -203,7 +248,7 @@ export async function resolveFlag(input: unknown, actor: Actor): Promise<Result<
     requireRole(actor, "reviewer");
     const parsed = flagActionSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The action needs attention; nothing was changed.");
-    return ok(act(sqlite(), parsed.data, actor));
+    return ok(await actOnFlag(parsed.data, actor));
   });
 }
 
@@ -223,11 +268,10 @@ export async function resolveFlagsBulk(input: unknown, actor: Actor): Promise<Re
     requireRole(actor, "reviewer");
     const parsed = bulkFlagActionSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The bulk action needs attention; nothing was changed.");
-    const db = sqlite();
     const items: BulkItemResult[] = [];
     for (const item of parsed.data.items) {
       try {
-        const result = act(db, { flagId: item.flagId, version: item.version, recordVersion: null, action: parsed.data.action, reason: parsed.data.reason, fix: null }, actor);
+        const result = await actOnFlag({ flagId: item.flagId, version: item.version, recordVersion: null, action: parsed.data.action, reason: parsed.data.reason, fix: null }, actor);
         items.push({ flagId: item.flagId, ok: true, result });
       } catch (error) {
         if (error instanceof AppFailure) items.push({ flagId: item.flagId, ok: false, error: { code: error.error.code, message: error.error.message } });
@@ -248,30 +292,29 @@ export async function acceptRecord(input: unknown, actor: Actor): Promise<Result
     requireRole(actor, "reviewer");
     const parsed = acceptRecordSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The action needs attention; nothing was changed.");
-    const db = sqlite();
-    return db.transaction(() => {
+    return sql().transaction(async (db): Promise<Result<{ recordId: number; version: number; acceptedFlags: number }>> => {
       const at = isoNow();
       const { recordId, version, reason } = parsed.data;
-      const rec = getReviewRecord(db, recordId);
+      const rec = await getReviewRecord(db, recordId);
       if (!rec) return fail("not_found", `There is no record ${recordId}.`);
       if (version !== null && rec.version !== version) {
         return fail("conflict", `Record ${recordId} was saved after you loaded it (you saw version ${version}, it is now version ${rec.version}). Nothing was changed; reload to see it.`, { currentVersion: rec.version });
       }
       if (rec.status === "accepted") return fail("conflict", `Record ${recordId} is already accepted.`);
       if (rec.status === "rejected" || rec.status === "merged") return fail("conflict", `Record ${recordId} is ${rec.status}; it cannot be accepted.`);
-      const open = openFlagsOfRecord(db, recordId);
+      const open = await openFlagsOfRecord(db, recordId);
       const errors = open.filter((f) => f.severity === "error");
       if (errors.length) {
         return fail("conflict", `Record ${recordId} still has ${errors.length} open error flag${errors.length === 1 ? "" : "s"} (${errors.map((f) => `${f.ruleCode} #${f.id}`).join(", ")}); fix, waive or resolve them first.`, { openErrors: errors.map((f) => f.id) });
       }
-      if (!updateRecordIfVersionRaw(db, recordId, rec.version, { status: "accepted" }, actor.id, at)) return fail("conflict", `Record ${recordId} changed while saving; reload and try again.`);
-      audit(db, actor, "accept", "record", recordId, { status: rec.status }, { status: "accepted" }, reason, at);
+      if (!(await updateRecordIfVersion(db, recordId, rec.version, { status: "accepted" }, actor.id, at))) return fail("conflict", `Record ${recordId} changed while saving; reload and try again.`);
+      await audit(db, actor, "accept", "record", recordId, { status: rec.status }, { status: "accepted" }, reason, at);
       for (const f of open) {
-        setFlagStateIfVersion(db, f.id, f.version, { state: "resolved", resolution: "accept", reason: reason ?? "accepted with the record", actorId: actor.id, at });
-        audit(db, actor, "accept", "flag", f.id, { state: "open" }, { state: "resolved", resolution: "accept" }, reason ?? "accepted with the record", at);
+        if (!(await setFlagStateIfVersion(db, f.id, f.version, { state: "resolved", resolution: "accept", reason: reason ?? "accepted with the record", actorId: actor.id, at }))) lostRace(f.id);
+        await audit(db, actor, "accept", "flag", f.id, { state: "open" }, { state: "resolved", resolution: "accept" }, reason ?? "accepted with the record", at);
       }
       return ok({ recordId, version: rec.version + 1, acceptedFlags: open.length });
-    })();
+    });
   });
 }
 
@@ -284,19 +327,18 @@ export async function setSourceQualityOverride(input: unknown, actor: Actor): Pr
     requireRole(actor, "reviewer");
     const parsed = sourceQualityOverrideSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The override needs attention; nothing was changed.");
-    const db = sqlite();
-    return db.transaction(() => {
+    return sql().transaction(async (db): Promise<Result<{ sourceId: number; version: number; records: number }>> => {
       const at = isoNow();
       const { sourceId, version, score, reason } = parsed.data;
-      const before = db.prepare(`SELECT version, qualityOverride, qualityOverrideReason FROM Source WHERE id = ?`).get(sourceId) as { version: number; qualityOverride: number | null; qualityOverrideReason: string | null } | undefined;
+      const before = await getSourceOverride(db, sourceId);
       if (!before) return fail("not_found", `There is no source ${sourceId}.`);
-      if (!setSourceQualityOverrideIfVersion(db, sourceId, version, score, score === null ? null : reason, actor.id, at)) {
+      if (!(await setSourceQualityOverrideIfVersion(db, sourceId, version, score, score === null ? null : reason, actor.id, at))) {
         return fail("conflict", `Source ${sourceId} was saved after you loaded it (you saw version ${version}, it is now version ${before.version}). Nothing was changed; reload to see it.`, { currentVersion: before.version });
       }
-      audit(db, actor, score === null ? "clear_quality_override" : "quality_override", "source", sourceId, { qualityOverride: before.qualityOverride, reason: before.qualityOverrideReason }, { qualityOverride: score }, reason, at);
-      const ids = recordIdsOfSource(db, sourceId);
-      if (ids.length) runChecksSync(ids, { actor }, db);
+      await audit(db, actor, score === null ? "clear_quality_override" : "quality_override", "source", sourceId, { qualityOverride: before.qualityOverride, reason: before.qualityOverrideReason }, { qualityOverride: score }, reason, at);
+      const ids = await recordIdsOfSource(db, sourceId);
+      if (ids.length) await runChecksIn(db, ids, { actor });
       return ok({ sourceId, version: version + 1, records: ids.length });
-    })();
+    });
   });
 }

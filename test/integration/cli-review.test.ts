@@ -1,47 +1,68 @@
 // `meltledger check` and `meltledger flags` as a script runs them: a real process on a temporary
-// database that the test fills through the server layer.
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { sqlite } from "@/lib/db/connection";
-import { migrate } from "@/lib/db/migrate";
+// database, on both engines. The records are written through the db layer's Prisma functions (either
+// engine) with their import file and row and without a check run, so that `meltledger check` is
+// what raises the flags.
+import { execFile } from "node:child_process";
+import path from "node:path";
+import { promisify } from "node:util";
+import { beforeAll, expect, test } from "vitest";
+import { prismaReady } from "@/lib/db/client";
+import { findOrCreateMaterial } from "@/lib/db/materials";
+import { insertRecord } from "@/lib/db/records";
 import { localActor } from "@/lib/server/actor";
-import { insertRecordsBulk } from "@/lib/server/records-bulk";
+import { prepareRecord } from "@/lib/server/record-write";
 import { createSource } from "@/lib/server/sources";
+import { recordInputSchema } from "@/lib/schemas/record";
 import { mixedUnitRecord, sourceInput } from "../support/fixtures";
-import { cliFor } from "../support/cli";
-import { useTempDatabase } from "../support/temp-db";
+import type { CliRun } from "../support/cli";
+import { describeEachEngine } from "../support/engines";
 
-const tmp = useTempDatabase("cli-review");
-const cli = cliFor(tmp.filePath);
-
+const run = promisify(execFile);
+const BIN = path.resolve(import.meta.dirname, "../../bin/meltledger.mjs");
 
 interface FlagJson { id: number; record_id: number; import_file: string | null; import_row: number | null; code: string; severity: string; message: string; details: Record<string, unknown>; state: string; resolution: string | null; version: number }
-const flagsJson = async (...filters: string[]) => {
-  const r = await cli("flags", "list", "--json", ...filters);
-  expect(r.code, r.stderr).toBe(0);
-  return JSON.parse(r.stdout) as FlagJson[];
-};
 
-let ids: number[] = [];
+describeEachEngine("meltledger check and flags", (current) => {
+  const cli = async (...args: string[]): Promise<CliRun> => {
+    try {
+      const { stdout, stderr } = await run(process.execPath, [BIN, ...args], { env: { ...process.env, DATABASE_URL: current().url }, maxBuffer: 64 * 1024 * 1024 });
+      return { code: 0, stdout, stderr };
+    } catch (error) {
+      const e = error as CliRun;
+      return { code: e.code, stdout: e.stdout, stderr: e.stderr };
+    }
+  };
+  const flagsJson = async (...filters: string[]) => {
+    const r = await cli("flags", "list", "--json", ...filters);
+    expect(r.code, r.stderr).toBe(0);
+    return JSON.parse(r.stdout) as FlagJson[];
+  };
 
-beforeAll(async () => {
-  migrate(sqlite());
-  const actor = await localActor();
-  const s = await createSource(sourceInput(), actor);
-  if (!s.ok) throw new Error(s.error.message);
-  const rows = [
-    mixedUnitRecord(s.data.id, { laserPower: { value: "205", unit: "W" } }), // row 1: clean
-    mixedUnitRecord(s.data.id, { laserPower: { value: "215", unit: "W" }, scanSpeed: { value: "0.75", unit: "mm/s" } }), // row 2: unit slip
-    mixedUnitRecord(s.data.id, { laserPower: { value: "225", unit: "W" }, hatchSpacing: { value: "0.6", unit: "mm" } }), // row 3: hatch out of range
-    mixedUnitRecord(s.data.id, { laserPower: { value: "235", unit: "W" }, layerThickness: { value: "0.3", unit: "mm" } }), // row 4: layer out of range
-  ];
-  // Deferred here so that `meltledger check` is what raises the flags.
-  const r = await insertRecordsBulk(rows, actor, { importFile: "trial-plan.csv", deferChecks: true });
-  if (!r.ok) throw new Error(r.error.message);
-  ids = r.data.ids;
-});
-afterAll(() => tmp.cleanup());
+  let ids: number[] = [];
 
-describe("meltledger check and flags", () => {
+  beforeAll(async () => {
+    const actor = await localActor();
+    const s = await createSource(sourceInput(), actor);
+    if (!s.ok) throw new Error(s.error.message);
+    const rows = [
+      mixedUnitRecord(s.data.id, { laserPower: { value: "205", unit: "W" } }), // row 1: clean
+      mixedUnitRecord(s.data.id, { laserPower: { value: "215", unit: "W" }, scanSpeed: { value: "0.75", unit: "mm/s" } }), // row 2: unit slip
+      mixedUnitRecord(s.data.id, { laserPower: { value: "225", unit: "W" }, hatchSpacing: { value: "0.6", unit: "mm" } }), // row 3: hatch out of range
+      mixedUnitRecord(s.data.id, { laserPower: { value: "235", unit: "W" }, layerThickness: { value: "0.3", unit: "mm" } }), // row 4: layer out of range
+    ];
+    const db = await prismaReady();
+    ids = await db.$transaction(async (tx) => {
+      const out: number[] = [];
+      for (const [i, input] of rows.entries()) {
+        const prepared = prepareRecord(recordInputSchema.parse(input));
+        if (!prepared.ok) throw new Error(JSON.stringify(prepared.fieldErrors));
+        const materialId = await findOrCreateMaterial(tx, prepared.material);
+        out.push((await insertRecord(tx, { ...prepared.write, materialId, importFile: "trial-plan.csv", importRow: i + 1 }, actor.id)).id);
+      }
+      return out;
+    });
+  });
+
   test("check --all raises the flags and prints a summary", async () => {
     const r = await cli("check", "--all", "--json");
     expect(r.code, r.stderr).toBe(0);
