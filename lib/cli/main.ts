@@ -1,7 +1,6 @@
 import { closeSqlite } from "../db/connection";
 import { closeSql } from "../db/sql";
 import { disconnectPrisma } from "../db/client";
-import { closeSql } from "../db/sql";
 import type { CliCommand, CliIo } from "./types";
 
 const HELP = `meltledger — curation workbench for LPBF build records
@@ -74,8 +73,6 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     // a PostgreSQL pool left open would keep the process alive until its idle connections time out
     await closeSql();
     await disconnectPrisma();
-    // a PostgreSQL pool left open would keep the process alive until its idle connections time out
-    await closeSql();
     closeSqlite();
   }
 }

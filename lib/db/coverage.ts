@@ -3,7 +3,6 @@
  * coverage view needs, handed over column by column (typed arrays, NaN for a missing value) so
  * 100k records cost one index scan and the driver's row objects only.
  */
-import type { PropertyName, PropertyOverrides } from "../domain/alloy-properties";
 import { recordFilterIndexHint } from "./records";
 import type { SqlExecutor, SqlValue } from "./sql";
 
@@ -125,35 +124,4 @@ export async function selectCoveragePoints(db: SqlExecutor, sel: CoverageSelecti
 export async function sourceTitles(db: SqlExecutor, ids: readonly number[]): Promise<{ id: number; year: number | null; title: string }[]> {
   if (!ids.length) return [];
   return db.all<{ id: number; year: number | null; title: string }>(`SELECT "id", "year", "title" FROM "Source" WHERE "id" IN (${ids.map(() => "?").join(",")}) ORDER BY "id"`, ids);
-}
-
-/** Column spellings of AlloyPropertyOverride.property (schema comment) and the domain's names. */
-const PROPERTY_COLUMN: Record<string, PropertyName> = {
-  density_kg_m3: "densityKgPerM3",
-  cp_j_kg_k: "specificHeatJPerKgK",
-  k_w_m_k: "thermalConductivityWPerMK",
-  solidus_k: "solidusK",
-  liquidus_k: "liquidusK",
-  boiling_k: "boilingK",
-  latent_heat_j_kg: "latentHeatJPerKg",
-  absorptivity: "absorptivity",
-};
-const KNOWN_PROPERTIES = new Set<string>(Object.values(PROPERTY_COLUMN));
-
-/**
- * Reviewer overrides of one alloy's properties, read as loadPropertyOverrides (check-inputs.ts)
- * reads them for every alloy: unknown property names and unusable values are skipped.
- */
-export async function alloyPropertyOverrides(db: SqlExecutor, alloyKey: string): Promise<PropertyOverrides> {
-  const rows = await db.all<{ property: string; value: number; source: string }>(
-    `SELECT "property", "value", "source" FROM "AlloyPropertyOverride" WHERE "alloyKey" = ? ORDER BY "id"`,
-    [alloyKey],
-  );
-  const out: PropertyOverrides = {};
-  for (const r of rows) {
-    const name = PROPERTY_COLUMN[r.property] ?? (KNOWN_PROPERTIES.has(r.property) ? (r.property as PropertyName) : undefined);
-    if (!name || !(r.value > 0) || (name === "absorptivity" && r.value > 1)) continue;
-    out[name] = { value: r.value, source: r.source };
-  }
-  return out;
 }

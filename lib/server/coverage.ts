@@ -26,7 +26,8 @@ import { materialFromProperties } from "../domain/meltpool-analysis";
 import { OUTCOMES } from "../domain/outcomes";
 import { PLAUSIBLE_RANGES } from "../domain/units";
 import { assessPoint, windowBoundaries, windowSettingsFromChecks, type WindowBoundary, type WindowCase, type WindowMargins } from "../domain/process-window";
-import { alloyPropertyOverrides, selectCoveragePoints, sourceTitles, type SelectionColumns } from "../db/coverage";
+import { loadPropertyOverrides } from "../db/check-inputs";
+import { selectCoveragePoints, sourceTitles, type SelectionColumns } from "../db/coverage";
 import { distinctAlloys } from "../db/records";
 import { sql, type SqlExecutor } from "../db/sql";
 import { coverageQuerySchema, type CoverageQuery, type RangeFilter } from "../schemas/coverage";
@@ -167,7 +168,7 @@ async function computeWindow(
 ): Promise<{ window: CoverageWindow | null; reason: string | null }> {
   if (q.alloy === null) return { window: null, reason: "The process window depends on the alloy: choose one alloy to draw it and to score coverage inside it." };
   const resolved = resolveAlloy(q.alloy);
-  const overrides = await alloyPropertyOverrides(db, resolved.ok ? resolved.alloyKey : q.alloy);
+  const overrides = (await loadPropertyOverrides(db)).get(resolved.ok ? resolved.alloyKey : q.alloy) ?? {};
   const props = resolveAlloyProperties({
     alloyKey: resolved.ok ? resolved.alloyKey : q.alloy,
     composition: resolved.ok ? { basis: "wt", components: resolved.components } : null,

@@ -11,7 +11,8 @@ import { createPrng } from "../domain/prng";
 import { SUGGESTION_CAUTION } from "../domain/safety";
 import { suggestExperiments, type PlaneSummary, type Suggestion } from "../domain/suggestions";
 import { suggestionsCsv } from "../domain/suggestions-csv";
-import { alloyPropertyOverrides, selectCoveragePoints } from "../db/coverage";
+import { loadPropertyOverrides } from "../db/check-inputs";
+import { selectCoveragePoints } from "../db/coverage";
 import { sql } from "../db/sql";
 import { getSuggestionSet, insertSuggestionSet, listSuggestionSets } from "../db/suggestions";
 import { suggestionRequestSchema, type SuggestionRequest } from "../schemas/coverage";
@@ -105,7 +106,7 @@ export async function createSuggestionSet(input: unknown, actor: Actor, now: () 
     const props = resolveAlloyProperties({
       alloyKey,
       composition: resolved.ok ? { basis: "wt", components: resolved.components } : null,
-      overrides: await alloyPropertyOverrides(db, alloyKey),
+      overrides: (await loadPropertyOverrides(db)).get(alloyKey) ?? {},
     });
     if (!props.ok) return fail("invalid_input", `Cannot predict a process window for ${request.alloy}: ${props.message}.`, { fieldErrors: { alloy: [props.message] } });
     const material = materialFromProperties(props.properties);
