@@ -34,42 +34,64 @@ interface ExportRow extends Omit<ExportRecord, "composition" | "createdAt" | "up
   updatedAt: string | number;
 }
 
+/** Rows read per query: the driver's row objects of one page die young instead of all 100k surviving a collection. */
+const PAGE_ROWS = 4096;
+
 /**
  * Records that may enter an export (by status, alloy and source), ordered by id, with their
- * material's composition (one shared object per material). One query; timestamps in the
- * canonical form (ISO 8601 UTC with milliseconds) whatever the engine keeps them in, so both
- * engines give the same records.
+ * material's composition (one shared object per material). Read a page at a time by id (keyset:
+ * each page is the next ids after the last one read), so call it inside a read-only transaction
+ * for one consistent view. Timestamps in the canonical form (ISO 8601 UTC with milliseconds)
+ * whatever the engine keeps them in, so both engines give the same records.
  */
-export async function loadExportRecords(db: SqlExecutor, q: ExportCandidateQuery): Promise<ExportRecord[]> {
+export async function loadExportRecords(db: SqlExecutor, q: ExportCandidateQuery, pageRows = PAGE_ROWS): Promise<ExportRecord[]> {
   const parts: string[] = [];
   const params: SqlValue[] = [];
   inList("status", q.statuses, parts, params);
   inList("alloyKey", q.alloys, parts, params);
   inList("sourceId", q.sourceIds, parts, params);
+  parts.push(`"id" > ?`);
   // The timestamps are read as text (CAST has no declared type, so the executor does not convert
   // them row by row) and made canonical here, once per distinct value: rows written together share them.
-  const rows = await db.all<ExportRow>(
-    `SELECT "id", "sourceId" AS "sourceId", "materialId" AS "materialId", "alloyKey" AS "alloyKey", "status", "outcome",
+  const query = `SELECT "id", "sourceId" AS "sourceId", "materialId" AS "materialId", "alloyKey" AS "alloyKey", "status", "outcome",
             "relativeDensityPct" AS "relativeDensityPct", "laserPowerW" AS "laserPowerW", "scanSpeedMmPerS" AS "scanSpeedMmPerS",
             "hatchSpacingUm" AS "hatchSpacingUm", "layerThicknessUm" AS "layerThicknessUm", "spotDiameterUm" AS "spotDiameterUm",
             "preheatC" AS "preheatC", "powderD50Um" AS "powderD50Um", "qualityScore" AS "qualityScore",
             CAST("createdAt" AS TEXT) AS "createdAt", CAST("updatedAt" AS TEXT) AS "updatedAt"
-     FROM "BuildRecord" ${parts.length ? `WHERE ${parts.join(" AND ")}` : ""} ORDER BY "id"`,
-    params,
-  );
+     FROM "BuildRecord" WHERE ${parts.join(" AND ")} ORDER BY "id" LIMIT ${Math.max(1, Math.floor(pageRows))}`;
   const comps = await compositions(db);
   const iso = lastValueMemo(isoOf);
-  // Each row becomes its record in place (the driver's objects are fresh and ours): a second
-  // object per row with every field copied would cost more than the rest of this loop.
-  for (let i = 0; i < rows.length; i++) {
-    const r = rows[i]! as ExportRow & { composition?: Composition | null };
-    const c = comps.get(r.materialId);
-    r.createdAt = iso(r.createdAt);
-    r.updatedAt = iso(r.updatedAt);
-    r.composition = c && c.components.length ? c : null;
+  const out: ExportRecord[] = [];
+  for (let after = 0; ; ) {
+    const rows = await db.all<ExportRow>(query, [...params, after]);
+    // A record object of its own per row, written out as a literal: its fields live inside the
+    // object, which the build reads many times over.
+    for (const r of rows) {
+      const c = comps.get(r.materialId);
+      out.push({
+        id: r.id,
+        sourceId: r.sourceId,
+        alloyKey: r.alloyKey,
+        status: r.status,
+        outcome: r.outcome,
+        relativeDensityPct: r.relativeDensityPct,
+        laserPowerW: r.laserPowerW,
+        scanSpeedMmPerS: r.scanSpeedMmPerS,
+        hatchSpacingUm: r.hatchSpacingUm,
+        layerThicknessUm: r.layerThicknessUm,
+        spotDiameterUm: r.spotDiameterUm,
+        preheatC: r.preheatC,
+        powderD50Um: r.powderD50Um,
+        qualityScore: r.qualityScore,
+        createdAt: iso(r.createdAt),
+        updatedAt: iso(r.updatedAt),
+        composition: c && c.components.length ? c : null,
+      });
+    }
+    if (rows.length < pageRows) break;
+    after = rows[rows.length - 1]!.id;
   }
-  // materialId stays on the objects beside the record's fields; nothing reads it
-  return rows as unknown as ExportRecord[];
+  return out;
 }
 
 /** `f` remembering its last argument and result: rows written together share their timestamps. */

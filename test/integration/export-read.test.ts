@@ -62,7 +62,12 @@ describeEachEngine("export reads", (current) => {
     expect(all[4]!.relativeDensityPct).toBeNull();
     expect(all[3]).toMatchObject({ id: 4, sourceId: 2, alloyKey: "316L", status: "needs_review", laserPowerW: 180, scanSpeedMmPerS: 800, hatchSpacingUm: null, qualityScore: null });
 
-    const narrowed = await loadExportRecords(sql(), { statuses: ["accepted"], alloys: ["316L"], sourceIds: [1] });
+    // read a page at a time: pages of 2 and of 4 give the same records as one page
+    const q = { statuses: ["accepted", "needs_review"], alloys: [], sourceIds: [] };
+    expect(await sql().transaction((tx) => loadExportRecords(tx, q, 2), { readOnly: true })).toEqual(all);
+    expect(await loadExportRecords(sql(), { ...q, statuses: ["accepted"] }, 4)).toEqual(all.filter((r) => r.status === "accepted"));
+
+    const narrowed = await loadExportRecords(sql(), { statuses: ["accepted"], alloys: ["316L"], sourceIds: [1] }, 1);
     const expected = RECORDS.filter((r) => r.status === "accepted" && r.alloyKey === "316L" && r.sourceId === 1).map((r) => r.id);
     expect(narrowed.map((r) => r.id)).toEqual(expected);
     expect(expected.length).toBeGreaterThan(1);
