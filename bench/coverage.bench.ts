@@ -1,6 +1,9 @@
 // Coverage figures: the coverage view over 100k records through the server use case (with the
 // JSON the route sends) against the bare indexed SQL that fetches the same points, and a set of 50
-// suggested experiments against the same bare query for the alloy.
+// suggested experiments against the same bare query for the alloy. With BENCH_POSTGRES_URL (a
+// PostgreSQL server the bench may create and drop a database on), the same records are copied
+// there (`db copy`) and the coverage view is timed on PostgreSQL too, its reports compared with SQLite's.
+import { randomUUID } from "node:crypto";
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -8,10 +11,13 @@ import { closeSqlite, sqlite } from "../lib/db/connection";
 import { disconnectPrisma } from "../lib/db/client";
 import { COVERAGE_COLUMNS, coverageWhere } from "../lib/db/coverage";
 import { migrate } from "../lib/db/migrate";
+import { withPostgres } from "../lib/db/postgres";
+import { closeSql } from "../lib/db/sql";
 import { RECORD_FILTER_INDEX } from "../lib/db/records";
 import { coverageQuerySchema } from "../lib/schemas/coverage";
 import { localActor } from "../lib/server/actor";
-import { clearCoverageCache, getCoverage } from "../lib/server/coverage";
+import { clearCoverageCache, coverageJson, getCoverage } from "../lib/server/coverage";
+import { copyDatabase } from "../lib/server/db-copy";
 import { insertRecordsBulk } from "../lib/server/records-bulk";
 import { createSource } from "../lib/server/sources";
 import { createSuggestionSet } from "../lib/server/suggestions";
@@ -83,6 +89,13 @@ export const coverageBench: BenchSuite = async () => {
     const apiMedian = median(apiTimes.slice(queries.length));
     const coldMedian = median(coldTimes);
     const bareMedian = median(bareTimes.slice(queries.length));
+    // the reports of the last round, for the comparison with PostgreSQL
+    const sqliteReports: string[] = [];
+    for (const input of queries) {
+      const r = await getCoverage(input);
+      if (!r.ok) throw new Error(r.error.message);
+      sqliteReports.push(JSON.stringify(coverageJson(r.data)));
+    }
     figures.push({
       name: `coverage view over ${N.toLocaleString("en")} records through the server (grid, window, score, histograms, JSON), median of 4 selections`,
       value: apiMedian,
@@ -129,10 +142,59 @@ export const coverageBench: BenchSuite = async () => {
       ratio: { value: suggestMedian / bareAlloy },
       notes: `${made} suggestions in the last set`,
     });
+    const pgServer = process.env.BENCH_POSTGRES_URL?.trim();
+    if (pgServer) figures.push(await postgresFigure(pgServer, dir, queries, sqliteReports, apiMedian));
   } finally {
     await disconnectPrisma();
+    await closeSql();
     closeSqlite();
     rmSync(dir, { recursive: true, force: true });
   }
   return figures;
 };
+
+/** The coverage view of the same selections on a PostgreSQL copy of the bench database. */
+async function postgresFigure(serverUrl: string, dir: string, queries: readonly unknown[], sqliteReports: string[], sqliteMedian: number): Promise<BenchFigure> {
+  const name = `meltledger_bench_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
+  const url = new URL(serverUrl);
+  await withPostgres(url.toString(), (c) => c.query(`CREATE DATABASE "${name}"`));
+  url.pathname = `/${name}`;
+  const sqliteUrl = process.env.DATABASE_URL;
+  try {
+    await disconnectPrisma();
+    closeSqlite();
+    const copied = await copyDatabase({ from: `file:${path.join(dir, "bench.db")}`, to: url.toString(), filesTo: path.join(dir, "pg-files") });
+    if (!copied.ok) throw new Error(copied.error.message);
+    process.env.DATABASE_URL = url.toString();
+    await withPostgres(url.toString(), (c) => c.query("ANALYZE"));
+    const times: number[] = [];
+    const differ = new Set<number>();
+    for (let round = 0; round < 6; round++) {
+      for (const [i, input] of queries.entries()) {
+        const t = performance.now();
+        const r = await getCoverage(input);
+        if (!r.ok) throw new Error(r.error.message);
+        const json = JSON.stringify(coverageJson(r.data));
+        times.push(performance.now() - t);
+        if (json !== sqliteReports[i]) differ.add(i);
+      }
+    }
+    const pgMedian = median(times.slice(queries.length));
+    return {
+      name: "the coverage view on PostgreSQL (records copied with db copy), window kept, median of 4 selections",
+      value: pgMedian,
+      unit: "ms",
+      target: "the same reports as SQLite; <= 300 ms",
+      pass: differ.size === 0 && pgMedian <= 300,
+      baseline: { name: "the same on SQLite above", value: sqliteMedian, unit: "ms" },
+      ratio: { value: pgMedian / sqliteMedian },
+      notes: differ.size ? `reports that differ from SQLite's: selections ${[...differ].join(", ")}` : "every report the same as on SQLite",
+    };
+  } finally {
+    await closeSql();
+    await disconnectPrisma();
+    process.env.DATABASE_URL = sqliteUrl;
+    url.pathname = "/postgres";
+    await withPostgres(url.toString(), (c) => c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`));
+  }
+}

@@ -2,8 +2,11 @@
 // SMOTE, end to end through the server layer (read, filter, label, split, fill, physics, SMOTE,
 // CSV + Parquet + datasheet + manifest, write, record), against pandas + imbalanced-learn doing
 // the same filter, SMOTE and CSV write on the same rows and columns in the same run. Each side runs
-// in a process of its own.
+// in a process of its own. With BENCH_POSTGRES_URL (a PostgreSQL server the bench may create and
+// drop a database on, e.g. the one scripts/test-postgres.sh starts), the same records are copied
+// there (`db copy`) and exported again, and the two exports' files must be byte-identical.
 import { execFileSync } from "node:child_process";
+import { randomUUID } from "node:crypto";
 import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -11,6 +14,8 @@ import { parse } from "csv-parse/sync";
 import { closeSqlite, sqlite } from "../lib/db/connection";
 import { disconnectPrisma } from "../lib/db/client";
 import { migrate } from "../lib/db/migrate";
+import { withPostgres } from "../lib/db/postgres";
+import { copyDatabase } from "../lib/server/db-copy";
 import { localActor } from "../lib/server/actor";
 import { insertRecordsBulk } from "../lib/server/records-bulk";
 import { createSource } from "../lib/server/sources";
@@ -19,6 +24,51 @@ import type { BenchFigure, BenchSuite } from "./types";
 
 const N = Number(process.env.BENCH_EXPORT_RECORDS ?? 100_000);
 const SEED = 7;
+const ROOT = path.resolve(import.meta.dirname, "..");
+
+interface ChildSummary {
+  ms: number;
+  timings: Record<string, number>;
+  counts: { synthetic: Record<string, Record<string, number>> };
+  folder: string;
+  files: { name: string; sha256: string }[];
+}
+
+function runChild(database: string, requestFile: string, env: NodeJS.ProcessEnv = process.env): ChildSummary {
+  const out = execFileSync(process.execPath, ["--import", "tsx", path.join(ROOT, "bench/export-child.ts"), database, requestFile], { cwd: ROOT, env, maxBuffer: 1 << 24 }).toString();
+  return JSON.parse(out.trim().split("\n").pop()!) as ChildSummary;
+}
+
+/** The same export on PostgreSQL, from a copy of the same database. */
+async function postgresFigure(serverUrl: string, dir: string, requestFile: string, sqliteRun: ChildSummary): Promise<BenchFigure> {
+  const name = `meltledger_bench_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
+  const url = new URL(serverUrl);
+  await withPostgres(url.toString(), (c) => c.query(`CREATE DATABASE "${name}"`));
+  url.pathname = `/${name}`;
+  try {
+    const filesTo = path.join(dir, "pg-files");
+    const copied = await copyDatabase({ from: `file:${path.join(dir, "bench.db")}`, to: url.toString(), filesTo });
+    if (!copied.ok) throw new Error(copied.error.message);
+    // the SQLite run's record (ExportRun "bench") came along with the copy: this one gets another name
+    writeFileSync(requestFile, JSON.stringify({ ...JSON.parse(readFileSync(requestFile, "utf8")), name: "bench-pg" }));
+    const pg = runChild(url.toString(), requestFile, { ...process.env, MELTLEDGER_FILES_DIR: filesTo });
+    const differ = pg.files.filter((f) => sqliteRun.files.find((g) => g.name === f.name)?.sha256 !== f.sha256).map((f) => f.name);
+    const seconds = pg.ms / 1000;
+    return {
+      name: `the same export on PostgreSQL (records copied with db copy), files compared with the SQLite run's`,
+      value: seconds,
+      unit: "s",
+      target: "byte-identical files; seconds, not minutes (<= 30 s)",
+      pass: differ.length === 0 && seconds <= 30,
+      baseline: { name: "the export on SQLite above", value: sqliteRun.ms / 1000, unit: "s" },
+      ratio: { value: pg.ms / sqliteRun.ms },
+      notes: `${differ.length ? `files that differ: ${differ.join(", ")}` : "every file byte-identical"}; ${Object.entries(pg.timings).map(([k, v]) => `${k} ${(v / 1000).toFixed(2)} s`).join(", ")}`,
+    };
+  } finally {
+    url.pathname = "/postgres";
+    await withPostgres(url.toString(), (c) => c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`));
+  }
+}
 
 export const exportBench: BenchSuite = async () => {
   await disconnectPrisma();
@@ -44,8 +94,7 @@ export const exportBench: BenchSuite = async () => {
   closeSqlite();
   const requestFile = path.join(dir, "request.json");
   writeFileSync(requestFile, JSON.stringify({ ...request, name: "bench" }));
-  const childOut = execFileSync(process.execPath, ["--import", "tsx", path.resolve(import.meta.dirname, "export-child.ts"), path.join(dir, "bench.db"), requestFile], { cwd: path.resolve(import.meta.dirname, ".."), maxBuffer: 1 << 24 }).toString();
-  const ours = JSON.parse(childOut.trim().split("\n").pop()!) as { ms: number; timings: Record<string, number>; counts: { synthetic: Record<string, Record<string, number>> }; folder: string };
+  const ours = runChild(path.join(dir, "bench.db"), requestFile);
   const synthetic = Object.values(ours.counts.synthetic).reduce((s, m) => s + Object.values(m).reduce((a, n) => a + n, 0), 0);
 
   // Baseline input: the same real rows and columns, plus the status the filter reads.
@@ -78,6 +127,8 @@ export const exportBench: BenchSuite = async () => {
       notes: `${synthetic} synthetic rows (baseline ${base.synthetic}); ${timing}`,
     },
   ];
+  const pgServer = process.env.BENCH_POSTGRES_URL?.trim();
+  if (pgServer) figures.push(await postgresFigure(pgServer, dir, requestFile, ours));
   await disconnectPrisma();
   closeSqlite();
   rmSync(dir, { recursive: true, force: true });

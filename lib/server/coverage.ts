@@ -27,12 +27,11 @@ import { OUTCOMES } from "../domain/outcomes";
 import { PLAUSIBLE_RANGES } from "../domain/units";
 import { assessPoint, windowBoundaries, windowSettingsFromChecks, type WindowBoundary, type WindowCase, type WindowMargins } from "../domain/process-window";
 import { loadPropertyOverrides } from "../db/check-inputs";
-import { sqlite } from "../db/connection";
 import { selectCoveragePoints, sourceTitles, type SelectionColumns } from "../db/coverage";
 import { distinctAlloys } from "../db/records";
-import { sql } from "../db/sql";
+import { sql, type SqlExecutor } from "../db/sql";
 import { coverageQuerySchema, type CoverageQuery, type RangeFilter } from "../schemas/coverage";
-import { currentCheckSettingsSync } from "./check-settings";
+import { currentCheckSettings, type SettingsVersionInfo } from "./check-settings";
 import { DEFAULT_AMBIENT_TEMPERATURE_K } from "./meltpool";
 import { sourceOptionLabel } from "./records-facets";
 import { guard, invalid, ok, type AppError, type Result } from "./result";
@@ -164,18 +163,18 @@ export function clearCoverageCache(): void {
   windowCache.clear();
 }
 
-function computeWindow(q: CoverageQuery, columns: SelectionColumns, powerAxis: AxisSpec, speedAxis: AxisSpec, powerEdgesW: number[], speedEdgesMmPerS: number[]): { window: CoverageWindow | null; reason: string | null } {
+async function computeWindow(
+  db: SqlExecutor, settings: SettingsVersionInfo, q: CoverageQuery, columns: SelectionColumns, powerAxis: AxisSpec, speedAxis: AxisSpec, powerEdgesW: number[], speedEdgesMmPerS: number[],
+): Promise<{ window: CoverageWindow | null; reason: string | null }> {
   if (q.alloy === null) return { window: null, reason: "The process window depends on the alloy: choose one alloy to draw it and to score coverage inside it." };
   const resolved = resolveAlloy(q.alloy);
-  const db = sqlite();
-  const overrides = loadPropertyOverrides(db).get(resolved.ok ? resolved.alloyKey : q.alloy) ?? {};
+  const overrides = (await loadPropertyOverrides(db)).get(resolved.ok ? resolved.alloyKey : q.alloy) ?? {};
   const props = resolveAlloyProperties({
     alloyKey: resolved.ok ? resolved.alloyKey : q.alloy,
     composition: resolved.ok ? { basis: "wt", components: resolved.components } : null,
     overrides,
   });
   if (!props.ok) return { window: null, reason: `No process window for ${q.alloy}: ${props.message}.` };
-  const settings = currentCheckSettingsSync(db);
   const hatch = planeValue(q.windowHatch, q.hatch, columns.hatchSpacingUm, DEFAULT_WINDOW_PLANE.hatchSpacingUm);
   const layer = planeValue(q.windowLayer, q.layer, columns.layerThicknessUm, DEFAULT_WINDOW_PLANE.layerThicknessUm);
   const spot = planeValue(q.windowSpot, q.spot, columns.spotDiameterUm, DEFAULT_WINDOW_PLANE.spotDiameterUm);
@@ -246,7 +245,8 @@ export async function getCoverage(input: unknown): Promise<Result<CoverageReport
     const q = parsed.data;
     const resolved = q.alloy ? resolveAlloy(q.alloy) : null;
     const alloyKey = q.alloy === null ? null : resolved?.ok ? resolved.alloyKey : q.alloy;
-    const columns = selectCoveragePoints({ alloyKey, statuses: q.status, hatchSpacingUm: q.hatch, layerThicknessUm: q.layer, spotDiameterUm: q.spot });
+    const db = sql();
+    const columns = await selectCoveragePoints(db, { alloyKey, statuses: q.status, hatchSpacingUm: q.hatch, layerThicknessUm: q.layer, spotDiameterUm: q.spot });
     const query = { ...q, alloy: alloyKey };
 
     let withoutPv = 0;
@@ -256,7 +256,7 @@ export async function getCoverage(input: unknown): Promise<Result<CoverageReport
     const outcomes = OUTCOMES.filter((o) => columns.outcome.includes(o));
     // Histograms over the plausible ranges of the check settings: a unit slip (a hatch of 0.07 in a
     // µm column) is counted as outside instead of stretching the axis over four decades.
-    const settings = currentCheckSettingsSync(sqlite());
+    const settings = await currentCheckSettings(db);
     const plausible = (key: string) => ({ min: settingOf(settings.values, `${key}.min`), max: settingOf(settings.values, `${key}.max`) });
     const histograms = {
       hatchSpacingUm: histogram(columns.hatchSpacingUm, 20, undefined, plausible("range.hatchSpacing")),
@@ -269,7 +269,7 @@ export async function getCoverage(input: unknown): Promise<Result<CoverageReport
       .map((t) => ({ outcome: t.key, count: t.count }))
       .sort((a, b) => (order.get(a.outcome) ?? 99) - (order.get(b.outcome) ?? 99));
     const sourceCounts = tally(Array.from(columns.sourceId));
-    const titles = new Map(sourceTitles(sourceCounts.slice(0, 50).map((s) => s.key)).map((s) => [s.id, sourceOptionLabel(s)]));
+    const titles = new Map((await sourceTitles(db, sourceCounts.slice(0, 50).map((s) => s.key))).map((s) => [s.id, sourceOptionLabel(s)]));
     const bySource = sourceCounts.slice(0, 50).map((s) => ({ sourceId: s.key, label: titles.get(s.key) ?? `source ${s.key}`, count: s.count }));
 
     const emptyBase = {
@@ -288,7 +288,7 @@ export async function getCoverage(input: unknown): Promise<Result<CoverageReport
     const speedEdgesMmPerS = axisEdges(speedAxis);
     const plane = { laserPowerW: columns.laserPowerW, scanSpeedMmPerS: columns.scanSpeedMmPerS, outcome: columns.outcome };
     const grid = countGrid(plane, powerEdgesW, speedEdgesMmPerS);
-    const { window, reason } = computeWindow(query, columns, powerAxis, speedAxis, powerEdgesW, speedEdgesMmPerS);
+    const { window, reason } = await computeWindow(db, settings, query, columns, powerAxis, speedAxis, powerEdgesW, speedEdgesMmPerS);
     const mask = window?.mask ?? null;
     const sample = scatterSample(plane, grid, SCATTER_POINT_LIMIT, q.k);
     const points = {

@@ -8,10 +8,10 @@ import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } fr
 import { writeFile } from "node:fs/promises";
 import path from "node:path";
 import packageJson from "../../package.json";
-import { appendAuditRaw } from "../db/audit-raw";
-import { sqlite } from "../db/connection";
-import { exportRunNamesLike, getExportRun, insertExportRunRaw, listExportRuns, loadExportRecords, loadExportSources, type ExportRunRow } from "../db/exports";
-import { resolveDatabaseLocation } from "../db/location";
+import { appendAuditEvent } from "../db/audit-raw";
+import { countExportCandidates, countRecords, exportRunNamesLike, getExportRun, insertExportRun, listExportRuns, loadExportRecords, loadExportSources, type ExportRunRow } from "../db/exports";
+import { resolveDatabaseTarget } from "../db/location";
+import { sql, type SqlExecutor } from "../db/sql";
 import { buildTrainingSet, type BuiltExport } from "../domain/export/build";
 import { exportFilesWith } from "../domain/export/files";
 import { allowedStatuses } from "../domain/export/filters";
@@ -24,9 +24,9 @@ import { fail, guard, invalid, ok, type Result } from "./result";
 
 export const TOOL_VERSION: string = packageJson.version;
 
-/** The folder export runs live in: <data folder>/exports/<name>/. */
+/** The folder export runs live in: <data folder>/exports/<name>/ (on PostgreSQL the data folder is MELTLEDGER_FILES_DIR). */
 export function exportsDir(): string {
-  return path.join(resolveDatabaseLocation().dataDir, "exports");
+  return path.join(resolveDatabaseTarget().dataDir, "exports");
 }
 
 export interface ExportCounts {
@@ -70,20 +70,28 @@ function parseRequest(input: unknown): { ok: true; request: ExportRequest; optio
   return { ok: true, request: parsed.data, options: toExportOptions(parsed.data) };
 }
 
-function build(options: ExportOptions, clock?: () => number) {
-  const db = sqlite();
+/** What an export reads, from one snapshot of the database. */
+interface ExportInputs {
+  records: Awaited<ReturnType<typeof loadExportRecords>>;
+  sources: Awaited<ReturnType<typeof loadExportSources>>;
+  narrowed: { total: number; dropped: { status: number; alloy: number; source: number } };
+}
+
+async function readInputs(tx: SqlExecutor, options: ExportOptions): Promise<ExportInputs> {
   const { alloys, sourceIds } = options.filters;
   const statuses = allowedStatuses(options.filters);
-  const records = loadExportRecords(db, { statuses, alloys, sourceIds });
+  const records = await loadExportRecords(tx, { statuses, alloys, sourceIds });
   // The query reads only records with an allowed status, alloy and source; those it leaves out are
   // counted under the first filter that leaves them out, as the core counts the rest.
-  const count = (where: string, params: unknown[]) => (db.prepare(`SELECT COUNT(*) AS n FROM BuildRecord ${where}`).get(...params) as { n: number }).n;
-  const ph = (xs: readonly unknown[]) => xs.map(() => "?").join(",");
-  const total = count("", []);
-  const withStatus = count(`WHERE status IN (${ph(statuses)})`, [...statuses]);
-  const withAlloy = alloys.length ? count(`WHERE status IN (${ph(statuses)}) AND alloyKey IN (${ph(alloys)})`, [...statuses, ...alloys]) : withStatus;
+  const total = await countRecords(tx);
+  const withStatus = await countExportCandidates(tx, statuses, []);
+  const withAlloy = alloys.length ? await countExportCandidates(tx, statuses, alloys) : withStatus;
   const narrowed = { total, dropped: { status: total - withStatus, alloy: withStatus - withAlloy, source: withAlloy - records.length } };
-  return buildTrainingSet({ records, sources: loadExportSources(db), options, clock, narrowed });
+  return { records, sources: await loadExportSources(tx), narrowed };
+}
+
+function build(inputs: ExportInputs, options: ExportOptions, clock?: () => number) {
+  return buildTrainingSet({ records: inputs.records, sources: inputs.sources, options, clock, narrowed: inputs.narrowed });
 }
 
 /** Counts and warnings of an export without writing anything. */
@@ -91,14 +99,14 @@ export async function previewExport(input: unknown): Promise<Result<ExportPrevie
   return guard(async () => {
     const p = parseRequest(input);
     if (!p.ok) return p.error;
-    const r = build(p.options);
+    const inputs = await sql().transaction((tx) => readInputs(tx, p.options), { readOnly: true });
+    const r = build(inputs, p.options);
     if (!r.ok) return fail("invalid_input", r.problem.message, { problem: r.problem.code, ...r.problem.details });
     return ok({ options: p.options, counts: countsOf(r.built), warnings: r.built.warnings, sources: r.built.sources.length });
   });
 }
 
-function uniqueName(base: string): string {
-  const taken = new Set(exportRunNamesLike(sqlite(), base));
+function uniqueName(base: string, taken: ReadonlySet<string>): string {
   if (!taken.has(base) && !existsSync(path.join(exportsDir(), base))) return base;
   for (let i = 2; ; i++) {
     const name = `${base}-${i}`;
@@ -130,20 +138,28 @@ export async function createExport(input: unknown, actor: Actor, options: Create
     if (!p.ok) return p.error;
     const clock = options.clock ?? (() => performance.now());
     const t0 = clock();
-    if (p.request.name && getExportRun(sqlite(), p.request.name)) {
-      return fail("conflict", `An export named "${p.request.name}" already exists; choose another name or run that one again.`, { fieldErrors: { name: ["This name is taken."] } });
-    }
     // The Parquet worker starts now, so it is ready by the time the tables are built.
     const encoder = parquetEncoder();
-    const name = p.request.name ?? uniqueName(options.fallbackName ?? defaultName(p.options));
+    const base = p.request.name ?? options.fallbackName ?? defaultName(p.options);
+    let name: string;
+    let staging: string;
     const root = exportsDir();
-    // Written beside the final folder and renamed into place, so a run is there whole or not at all.
-    const staging = path.join(root, `.staging-${process.pid}-${name}`);
     let written: Awaited<ReturnType<typeof exportFilesWith>>;
     let r: ReturnType<typeof build>;
     let t1: number;
     try {
-      r = build(p.options, clock);
+      // Everything the export reads comes from one snapshot; the files are made after it has ended.
+      const read = await sql().transaction(async (tx) => {
+        if (p.request.name && (await getExportRun(tx, p.request.name))) return null;
+        return { taken: new Set(p.request.name ? [] : await exportRunNamesLike(tx, base)), inputs: await readInputs(tx, p.options) };
+      }, { readOnly: true });
+      if (!read) {
+        return fail("conflict", `An export named "${p.request.name}" already exists; choose another name or run that one again.`, { fieldErrors: { name: ["This name is taken."] } });
+      }
+      name = p.request.name ?? uniqueName(base, read.taken);
+      // Written beside the final folder and renamed into place, so a run is there whole or not at all.
+      staging = path.join(root, `.staging-${process.pid}-${name}`);
+      r = build(read.inputs, p.options, clock);
       if (!r.ok) return fail("invalid_input", `${r.problem.message} Nothing was written.`, { problem: r.problem.code, ...r.problem.details });
       t1 = clock();
       mkdirSync(root, { recursive: true });
@@ -176,17 +192,22 @@ export async function createExport(input: unknown, actor: Actor, options: Create
     const folder = path.join(root, name);
     const counts = countsOf(r.built);
     const fileHashes = Object.fromEntries([...entries.map((e) => [e.name, e.sha256] as const), ["manifest.json", sha256Hex(files.at(-1)!.bytes)] as const]);
-    const db = sqlite();
-    const at = new Date().toISOString();
+    const at = new Date();
+    const built = r.built;
+    const runCounts = { ...counts, warnings: built.warnings, rows: Object.fromEntries(entries.filter((e) => e.rows !== null && e.name.endsWith(".csv")).map((e) => [e.name, e.rows])) };
+    let renamed = false;
     try {
+      // The folder is in place before the run is recorded: a recorded run always has its files.
       renameSync(staging, folder);
-      db.transaction(() => {
-        const id = insertExportRunRaw(db, { name, params: { request: requestFromOptions(p.options) }, seed: p.options.seed, counts: { ...counts, warnings: r.built.warnings, rows: Object.fromEntries(entries.filter((e) => e.rows !== null && e.name.endsWith(".csv")).map((e) => [e.name, e.rows])) }, files: fileHashes, toolVersion: TOOL_VERSION, createdById: actor.id, at });
-        appendAuditRaw(db, { actorId: actor.id, actorName: actor.name, action: "export", entityType: "export", entityId: id, after: { name, seed: p.options.seed, labelled: counts.labelled, files: fileHashes }, at });
-      })();
+      renamed = true;
+      await sql().transaction(async (tx) => {
+        const id = await insertExportRun(tx, { name, params: { request: requestFromOptions(p.options) }, seed: p.options.seed, counts: runCounts, files: fileHashes, toolVersion: TOOL_VERSION, createdById: actor.id, at });
+        await appendAuditEvent(tx, { actorId: actor.id, actorName: actor.name, action: "export", entityType: "export", entityId: id, after: { name, seed: p.options.seed, labelled: counts.labelled, files: fileHashes }, at: at.toISOString() });
+      });
     } catch (error) {
       rmSync(staging, { recursive: true, force: true });
-      if (existsSync(folder) && !getExportRun(db, name)) rmSync(folder, { recursive: true, force: true });
+      // only the folder this run put in place: another run of the same name may own the one there
+      if (renamed && !(await getExportRun(sql(), name))) rmSync(folder, { recursive: true, force: true });
       throw error;
     }
     if (options.outDir) {
@@ -221,14 +242,14 @@ const view = (r: ExportRunRow): ExportRunView => ({
 
 /** Saved export runs, newest first. */
 export async function listExports(): Promise<Result<ExportRunView[]>> {
-  return guard(async () => ok(listExportRuns(sqlite()).map(view)));
+  return guard(async () => ok((await listExportRuns(sql())).map(view)));
 }
 
 /** One saved export run. */
 export async function getExport(name: string): Promise<Result<ExportRunView>> {
   return guard(async () => {
     if (!EXPORT_NAME_PATTERN.test(name)) return fail("not_found", `There is no export named "${name}".`);
-    const r = getExportRun(sqlite(), name);
+    const r = await getExportRun(sql(), name);
     return r ? ok(view(r)) : fail("not_found", `There is no export named "${name}".`);
   });
 }
@@ -240,7 +261,7 @@ export async function getExport(name: string): Promise<Result<ExportRunView>> {
 export async function rerunExport(name: string, actor: Actor): Promise<Result<ExportRunSummary & { original: string; identical: boolean; changed: string[] }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
-    const run = EXPORT_NAME_PATTERN.test(name) ? getExportRun(sqlite(), name) : null;
+    const run = EXPORT_NAME_PATTERN.test(name) ? await getExportRun(sql(), name) : null;
     if (!run) return fail("not_found", `There is no export named "${name}".`);
     const request = (run.params as { request?: unknown })?.request;
     const r = await createExport(request, actor, { fallbackName: `${name}-rerun` });
@@ -256,7 +277,7 @@ const CONTENT_TYPES: Record<string, string> = { csv: "text/csv; charset=utf-8", 
 export async function openExportFile(name: string, file: string): Promise<Result<{ path: string; sizeBytes: number; contentType: string; sha256: string }>> {
   return guard(async () => {
     if (!EXPORT_NAME_PATTERN.test(name) || !EXPORT_FILE_PATTERN.test(file)) return fail("not_found", `There is no file "${file}" in an export named "${name}".`);
-    const run = getExportRun(sqlite(), name);
+    const run = await getExportRun(sql(), name);
     const sha256 = run?.files[file];
     if (!run || !sha256) return fail("not_found", `There is no file "${file}" in an export named "${name}".`);
     const p = path.join(exportsDir(), name, file);

@@ -12,12 +12,12 @@ import { SUGGESTION_CAUTION } from "../domain/safety";
 import { suggestExperiments, type PlaneSummary, type Suggestion } from "../domain/suggestions";
 import { suggestionsCsv } from "../domain/suggestions-csv";
 import { loadPropertyOverrides } from "../db/check-inputs";
-import { sqlite } from "../db/connection";
 import { selectCoveragePoints } from "../db/coverage";
+import { sql } from "../db/sql";
 import { getSuggestionSet, insertSuggestionSet, listSuggestionSets } from "../db/suggestions";
 import { suggestionRequestSchema, type SuggestionRequest } from "../schemas/coverage";
 import { requireRole, type Actor } from "./actor";
-import { currentCheckSettingsSync } from "./check-settings";
+import { currentCheckSettings } from "./check-settings";
 import { DEFAULT_WINDOW_PLANE } from "./coverage";
 import { DEFAULT_AMBIENT_TEMPERATURE_K } from "./meltpool";
 import { fail, guard, invalid, ok, type Result } from "./result";
@@ -102,19 +102,19 @@ export async function createSuggestionSet(input: unknown, actor: Actor, now: () 
     const seed = request.seed ?? Math.floor(now() % 2 ** 31);
     const resolved = resolveAlloy(request.alloy);
     const alloyKey = resolved.ok ? resolved.alloyKey : request.alloy;
-    const db = sqlite();
+    const db = sql();
     const props = resolveAlloyProperties({
       alloyKey,
       composition: resolved.ok ? { basis: "wt", components: resolved.components } : null,
-      overrides: loadPropertyOverrides(db).get(alloyKey) ?? {},
+      overrides: (await loadPropertyOverrides(db)).get(alloyKey) ?? {},
     });
     if (!props.ok) return fail("invalid_input", `Cannot predict a process window for ${request.alloy}: ${props.message}.`, { fieldErrors: { alloy: [props.message] } });
     const material = materialFromProperties(props.properties);
-    const columns = selectCoveragePoints({ alloyKey, statuses: request.status });
+    const columns = await selectCoveragePoints(db, { alloyKey, statuses: request.status });
     const spotMedian = medianPositive(columns.spotDiameterUm);
     const spotDiameterUm = request.spot ?? spotMedian ?? DEFAULT_WINDOW_PLANE.spotDiameterUm;
     const spotBasis = request.spot !== null ? "chosen" : spotMedian !== null ? "median of the alloy's records" : "default";
-    const settings = currentCheckSettingsSync(db);
+    const settings = await currentCheckSettings(db);
     const windowSettings = windowSettingsFromChecks(settings.values);
     const powerScale = request.powerScale === "auto" ? chooseScale(request.power!.min, request.power!.max) : request.powerScale;
     const speedScale = request.speedScale === "auto" ? chooseScale(request.speed!.min, request.speed!.max) : request.speedScale;
