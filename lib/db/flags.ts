@@ -1,5 +1,5 @@
 import type { AuditInput } from "./audit";
-import { appendAuditEvent } from "./audit-raw";
+import { appendAuditEvent } from "./audit";
 import { sqliteNullOrder, type SqlDatabase, type SqlExecutor, type SqlValue } from "./sql";
 
 export type FlagState = "open" | "resolved" | "waived";

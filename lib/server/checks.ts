@@ -13,7 +13,7 @@ import type { CheckSettings } from "../domain/check-settings";
 import { physicsProvider } from "../domain/checks/physics-input";
 import { completenessValueOf, recordQuality } from "../domain/record-quality";
 import { scoreSource } from "../domain/source-quality";
-import { appendAuditEvent } from "../db/audit-raw";
+import { appendAuditEvent } from "../db/audit";
 import { loadCheckRecords, loadPropertyOverrides, loadSourceAttributes, recordKeys, reopenAcceptedRecords, writeQualityScores, type CheckInputRow } from "../db/check-inputs";
 import type { RecordWrite } from "../db/records";
 import { flagFingerprint, flagsForRun, insertFlags, recordsWithOpenFlagsRelatedTo, refreshFlags, reopenFlags, resolveFlagsAuto, type FlagForRun, type FlagWrite } from "../db/flags";

@@ -8,7 +8,7 @@ import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } fr
 import { writeFile } from "node:fs/promises";
 import path from "node:path";
 import packageJson from "../../package.json";
-import { appendAuditEvent } from "../db/audit-raw";
+import { appendAuditEvent } from "../db/audit";
 import { countExportCandidates, countRecords, exportRunNamesLike, getExportRun, insertExportRun, listExportRuns, loadExportRecords, loadExportSources, type ExportRunRow } from "../db/exports";
 import { resolveDatabaseTarget } from "../db/location";
 import { sql, type SqlExecutor } from "../db/sql";

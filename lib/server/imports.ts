@@ -2,7 +2,7 @@ import { createReadStream, openSync, readSync, closeSync } from "node:fs";
 import { parse as csvParse } from "csv-parse";
 import readExcelFile from "read-excel-file/node";
 import { z } from "zod";
-import { appendAuditEvent } from "../db/audit-raw";
+import { appendAuditEvent } from "../db/audit";
 import { finishImportRun, getMappingPreset, insertImportRun, insertPlaceholderSource, listImportRuns, listMappingPresets, saveMappingPreset, sourceExists, sourceIdByUrl, sourceIdsByDoi, type ImportRunRow, type MappingPresetRow } from "../db/imports";
 import { sql, type SqlExecutor } from "../db/sql";
 import { hasMappingErrors, IMPORT_FIELDS, resolveMapping, type ImportMapping, type MappingIssue, type ResolvedMapping } from "../domain/column-mapping";

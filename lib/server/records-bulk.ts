@@ -1,4 +1,4 @@
-import { appendAuditEvent } from "../db/audit-raw";
+import { appendAuditEvent } from "../db/audit";
 import { missingSourceIds } from "../db/imports";
 import { materialIdFor, type MaterialSpec } from "../db/materials";
 import { insertRecords, type RecordStamp, type RecordWrite } from "../db/records";

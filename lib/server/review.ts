@@ -14,7 +14,7 @@
 import { DUPLICATE_CODES } from "../domain/checks/index";
 import { checkHardLimit, parseQuantity } from "../domain/units";
 import { energyDensities } from "../domain/energy-density";
-import { appendAuditEvent } from "../db/audit-raw";
+import { appendAuditEvent } from "../db/audit";
 import { getFlag, getFlagForAction, openFlagsOfRecord, recordsWithOpenFlagsRelatedTo, setFlagStateAudited, setFlagStateIfVersion, type FlagRow } from "../db/flags";
 import { getPairDecision, insertPairDecision } from "../db/pairs";
 import { getReviewRecord, getSourceOverride, recordIdsOfSource, setSourceQualityOverrideIfVersion, updateRecordIfVersion, type ReviewRecordRow } from "../db/reviews";
