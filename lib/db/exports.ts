@@ -27,12 +27,18 @@ const inList = (column: string, values: readonly SqlValue[], parts: string[], pa
   params.push(...values);
 };
 
-/** A row of the export query: the record's columns under their own names, timestamps as text. */
-interface ExportRow extends Omit<ExportRecord, "composition" | "createdAt" | "updatedAt"> {
-  materialId: number;
-  createdAt: string | number;
-  updatedAt: string | number;
-}
+/**
+ * A row of the export query as an array of values, in the SELECT list's order (no object per row
+ * from the driver): id, sourceId, materialId, alloyKey, status, outcome, relativeDensityPct,
+ * laserPowerW, scanSpeedMmPerS, hatchSpacingUm, layerThicknessUm, spotDiameterUm, preheatC,
+ * powderD50Um, qualityScore, createdAt, updatedAt (timestamps as text).
+ */
+type ExportRow = [
+  id: number, sourceId: number, materialId: number, alloyKey: string, status: string, outcome: string, relativeDensityPct: number | null,
+  laserPowerW: number | null, scanSpeedMmPerS: number | null, hatchSpacingUm: number | null, layerThicknessUm: number | null,
+  spotDiameterUm: number | null, preheatC: number | null, powderD50Um: number | null, qualityScore: number | null,
+  createdAt: string | number, updatedAt: string | number,
+];
 
 /** Rows read per query: the driver's row objects of one page die young instead of all 100k surviving a collection. */
 const PAGE_ROWS = 4096;
@@ -53,43 +59,41 @@ export async function loadExportRecords(db: SqlExecutor, q: ExportCandidateQuery
   parts.push(`"id" > ?`);
   // The timestamps are read as text (CAST has no declared type, so the executor does not convert
   // them row by row) and made canonical here, once per distinct value: rows written together share them.
-  const query = `SELECT "id", "sourceId" AS "sourceId", "materialId" AS "materialId", "alloyKey" AS "alloyKey", "status", "outcome",
-            "relativeDensityPct" AS "relativeDensityPct", "laserPowerW" AS "laserPowerW", "scanSpeedMmPerS" AS "scanSpeedMmPerS",
-            "hatchSpacingUm" AS "hatchSpacingUm", "layerThicknessUm" AS "layerThicknessUm", "spotDiameterUm" AS "spotDiameterUm",
-            "preheatC" AS "preheatC", "powderD50Um" AS "powderD50Um", "qualityScore" AS "qualityScore",
-            CAST("createdAt" AS TEXT) AS "createdAt", CAST("updatedAt" AS TEXT) AS "updatedAt"
+  const query = `SELECT "id", "sourceId", "materialId", "alloyKey", "status", "outcome", "relativeDensityPct", "laserPowerW", "scanSpeedMmPerS",
+            "hatchSpacingUm", "layerThicknessUm", "spotDiameterUm", "preheatC", "powderD50Um", "qualityScore",
+            CAST("createdAt" AS TEXT), CAST("updatedAt" AS TEXT)
      FROM "BuildRecord" WHERE ${parts.join(" AND ")} ORDER BY "id" LIMIT ${Math.max(1, Math.floor(pageRows))}`;
   const comps = await compositions(db);
   const iso = lastValueMemo(isoOf);
   const out: ExportRecord[] = [];
   for (let after = 0; ; ) {
-    const rows = await db.all<ExportRow>(query, [...params, after]);
+    const rows = await db.values<ExportRow>(query, [...params, after]);
     // A record object of its own per row, written out as a literal: its fields live inside the
     // object, which the build reads many times over.
     for (const r of rows) {
-      const c = comps.get(r.materialId);
+      const c = comps.get(r[2]);
       out.push({
-        id: r.id,
-        sourceId: r.sourceId,
-        alloyKey: r.alloyKey,
-        status: r.status,
-        outcome: r.outcome,
-        relativeDensityPct: r.relativeDensityPct,
-        laserPowerW: r.laserPowerW,
-        scanSpeedMmPerS: r.scanSpeedMmPerS,
-        hatchSpacingUm: r.hatchSpacingUm,
-        layerThicknessUm: r.layerThicknessUm,
-        spotDiameterUm: r.spotDiameterUm,
-        preheatC: r.preheatC,
-        powderD50Um: r.powderD50Um,
-        qualityScore: r.qualityScore,
-        createdAt: iso(r.createdAt),
-        updatedAt: iso(r.updatedAt),
+        id: r[0],
+        sourceId: r[1],
+        alloyKey: r[3],
+        status: r[4],
+        outcome: r[5],
+        relativeDensityPct: r[6],
+        laserPowerW: r[7],
+        scanSpeedMmPerS: r[8],
+        hatchSpacingUm: r[9],
+        layerThicknessUm: r[10],
+        spotDiameterUm: r[11],
+        preheatC: r[12],
+        powderD50Um: r[13],
+        qualityScore: r[14],
+        createdAt: iso(r[15]),
+        updatedAt: iso(r[16]),
         composition: c && c.components.length ? c : null,
       });
     }
     if (rows.length < pageRows) break;
-    after = rows[rows.length - 1]!.id;
+    after = rows[rows.length - 1]![0];
   }
   return out;
 }
