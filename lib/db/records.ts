@@ -184,27 +184,42 @@ export function recordFilterIndexHint(engine: DatabaseEngine): string {
   return engine === "sqlite" ? `INDEXED BY "${RECORD_FILTER_INDEX}"` : "";
 }
 
-/** One page of the records table and the number of records matching its filter. */
+type PageRow = Omit<RecordTableRow, "sourceLabel"> & { sourceYear: number | null; sourceTitle: string | null; total: number };
+
+/**
+ * One page of the records table and the number of records matching its filter, read by one
+ * statement: the count is an uncorrelated subquery (evaluated once) and each row's source label a
+ * lookup by primary key, so the page and its total come from one snapshot on both engines without
+ * a transaction — on PostgreSQL one round trip instead of five. A page past the end has no row to
+ * carry the count, so then the count is read alone.
+ */
 export async function listRecordsPage(q: RecordsQuery, db: SqlExecutor): Promise<{ rows: RecordTableRow[]; total: number }> {
   const where = recordsWhere(q);
-  const total = (await db.get<{ n: number }>(`SELECT COUNT(*) AS n FROM "BuildRecord" r ${recordFilterIndexHint(db.engine)} ${where.sql}`, where.params))!.n;
-  const rows = await db.all<RecordTableRow>(
+  const count = `SELECT COUNT(*) AS n FROM "BuildRecord" r ${recordFilterIndexHint(db.engine)} ${where.sql}`;
+  const page = await db.all<PageRow>(
     `SELECT r."id", r."sourceId", r."alloyKey", r."laserPowerW", r."scanSpeedMmPerS", r."hatchSpacingUm", r."layerThicknessUm", r."spotDiameterUm",
             r."volumetricEnergyJMm3", r."relativeDensityPct", r."outcome", r."status", r."qualityScore", r."machine", r."locationPage", r."locationLabel",
-            r."importRow", r."updatedAt"
+            r."importRow", r."updatedAt",
+            (SELECT s."year" FROM "Source" s WHERE s."id" = r."sourceId") AS "sourceYear",
+            (SELECT s."title" FROM "Source" s WHERE s."id" = r."sourceId") AS "sourceTitle",
+            (${count}) AS "total"
      FROM "BuildRecord" r ${where.sql} ${recordsOrderBy(q, db.engine)} LIMIT ? OFFSET ?`,
-    [...where.params, q.pageSize, q.page * q.pageSize],
+    [...where.params, ...where.params, q.pageSize, q.page * q.pageSize],
   );
-  const labels = await sourceLabels(db, [...new Set(rows.map((r) => r.sourceId))]);
-  for (const r of rows) r.sourceLabel = labels.get(r.sourceId) ?? `source ${r.sourceId}`;
-  return { rows, total };
+  if (!page.length) return { rows: [], total: (await db.get<{ n: number }>(count, where.params))!.n };
+  const rows: RecordTableRow[] = page.map((p) => ({
+    id: p.id, sourceId: p.sourceId, sourceLabel: sourceLabel(p.sourceId, p.sourceYear, p.sourceTitle), alloyKey: p.alloyKey, laserPowerW: p.laserPowerW,
+    scanSpeedMmPerS: p.scanSpeedMmPerS, hatchSpacingUm: p.hatchSpacingUm, layerThicknessUm: p.layerThicknessUm, spotDiameterUm: p.spotDiameterUm,
+    volumetricEnergyJMm3: p.volumetricEnergyJMm3, relativeDensityPct: p.relativeDensityPct, outcome: p.outcome, status: p.status, qualityScore: p.qualityScore,
+    machine: p.machine, locationPage: p.locationPage, locationLabel: p.locationLabel, importRow: p.importRow, updatedAt: p.updatedAt,
+  }));
+  return { rows, total: page[0]!.total };
 }
 
-/** Short "year · title" labels for the sources on one page. */
-async function sourceLabels(db: SqlExecutor, ids: number[]): Promise<Map<number, string>> {
-  if (!ids.length) return new Map();
-  const rows = await db.all<{ id: number; year: number | null; title: string }>(`SELECT "id", "year", "title" FROM "Source" WHERE "id" IN (${ids.map(() => "?").join(",")})`, ids);
-  return new Map(rows.map((s) => [s.id, `${s.year ?? "n.d."} · ${s.title.length > 60 ? `${s.title.slice(0, 59)}…` : s.title}`]));
+/** A short "year · title" label for a source; `source N` when it is gone. */
+function sourceLabel(id: number, year: number | null, title: string | null): string {
+  if (title === null) return `source ${id}`;
+  return `${year ?? "n.d."} · ${title.length > 60 ? `${title.slice(0, 59)}…` : title}`;
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -137,8 +137,8 @@ export async function listRecords(input: unknown): Promise<Result<RecordsPage>> 
   return guard(async () => {
     const parsed = recordsQuerySchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The table filters need attention.");
-    // the total and the rows from one snapshot, so a page never disagrees with its count
-    const { rows, total } = await sql().transaction((tx) => listRecordsPage(parsed.data, tx), { readOnly: true });
+    // the total and the rows come from one statement (one snapshot), so a page never disagrees with its count
+    const { rows, total } = await listRecordsPage(parsed.data, sql());
     return ok({ rows, total, query: parsed.data });
   });
 }

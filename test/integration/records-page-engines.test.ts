@@ -103,4 +103,11 @@ describeEachEngine("records table page", (current) => {
     const first = await page({ sourceId: [1], sort: "id", direction: "asc", pageSize: 1 });
     expect(first.rows[0]!.sourceLabel).toBe(`2020 · ${SOURCES[0]!.title.slice(0, 59)}…`);
   });
+
+  test("a page past the last row is empty and still carries the total; a filter matching nothing gives 0", async () => {
+    const past = await page({ sort: "id", direction: "asc", page: 50, pageSize: 10 });
+    expect({ total: past.total, ids: past.ids }).toEqual({ total: RECORDS.length, ids: [] });
+    const none = await page({ alloy: ["IN718"], pageSize: 10 });
+    expect({ total: none.total, ids: none.ids }).toEqual({ total: 0, ids: [] });
+  });
 });
