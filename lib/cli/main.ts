@@ -1,6 +1,4 @@
-import { closeSqlite } from "../db/connection";
-import { closeSql } from "../db/sql";
-import { disconnectPrisma } from "../db/client";
+import { closeDatabases } from "../db/databases";
 import type { CliCommand, CliIo } from "./types";
 
 const HELP = `meltledger — curation workbench for LPBF build records
@@ -73,8 +71,6 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     return await (await load())(rest, io);
   } finally {
     // a PostgreSQL pool left open would keep the process alive until its idle connections time out
-    await closeSql();
-    await disconnectPrisma();
-    closeSqlite();
+    await closeDatabases();
   }
 }

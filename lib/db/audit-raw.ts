@@ -1,21 +1,5 @@
-import type { SqliteDatabase } from "./connection";
 import type { AuditInput } from "./audit";
 import type { SqlExecutor } from "./sql";
-
-/** appendAudit for the raw connection, inside a better-sqlite3 transaction the caller holds. */
-export function appendAuditRaw(db: SqliteDatabase, e: AuditInput & { at: string }): void {
-  db.prepare(`INSERT INTO AuditEvent (actorId, actorName, action, entityType, entityId, before, after, reason, at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(
-    e.actorId,
-    e.actorName,
-    e.action,
-    e.entityType,
-    String(e.entityId),
-    e.before === undefined ? null : JSON.stringify(e.before),
-    e.after === undefined ? null : JSON.stringify(e.after),
-    e.reason ?? null,
-    e.at,
-  );
-}
 
 /** Appends one audit event on either engine, inside the caller's transaction (`tx` of sql().transaction). */
 export async function appendAuditEvent(db: SqlExecutor, e: AuditInput & { at: string }): Promise<void> {

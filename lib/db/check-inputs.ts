@@ -1,7 +1,6 @@
 import type { CheckRecord } from "../domain/checks/types";
 import type { PropertyOverrides, PropertyName } from "../domain/alloy-properties";
 import type { SourceAttributes } from "../domain/source-quality";
-import type { SqliteDatabase } from "./connection";
 import type { SqlExecutor } from "./sql";
 
 /** A record as the checks read it, with the columns the run needs beside the check itself. */
@@ -234,14 +233,12 @@ const SOURCE_COLUMNS = `"id", "title", "version", "kind", "densityMethod", "outc
 
 type RawSource = Omit<SourceAttributeRow, "machineStated" | "powderReported" | "atmosphereReported"> & { machineStated: unknown; powderReported: unknown; atmosphereReported: unknown };
 
-// BOOLEAN columns: true/false through sql.ts, 1/0 on the raw SQLite connection
+// BOOLEAN columns come back as true/false through sql.ts; a 1 (SQLite's stored form) counts as true too
 const truthy = (v: unknown) => v === true || v === 1;
 
 function sourceAttributes(rows: RawSource[]): Map<number, SourceAttributeRow> {
   return new Map(rows.map((s) => [s.id, { ...s, machineStated: truthy(s.machineStated), powderReported: truthy(s.powderReported), atmosphereReported: truthy(s.atmosphereReported) }]));
 }
-
-const isRaw = (db: SqlExecutor | SqliteDatabase): db is SqliteDatabase => !("engine" in db);
 
 /** The attributes the source score reads, per source id. */
 export async function loadSourceAttributes(db: SqlExecutor, ids: readonly number[] | "all"): Promise<Map<number, SourceAttributeRow>> {
@@ -292,12 +289,8 @@ function propertyOverrides(rows: OverrideRow[]): Map<string, PropertyOverrides> 
 const OVERRIDES = `SELECT "alloyKey" AS "alloyKey", "property", "value", "source" FROM "AlloyPropertyOverride" ORDER BY "id"`;
 
 /** Reviewer overrides of alloy properties, per alloy key; unknown property names and unusable values are skipped. */
-export function loadPropertyOverrides(db: SqlExecutor): Promise<Map<string, PropertyOverrides>>;
-/** @deprecated Transitional: the raw SQLite connection, for the callers not yet on sql.ts (coverage, suggestions). */
-export function loadPropertyOverrides(db: SqliteDatabase): Map<string, PropertyOverrides>;
-export function loadPropertyOverrides(db: SqlExecutor | SqliteDatabase): Promise<Map<string, PropertyOverrides>> | Map<string, PropertyOverrides> {
-  if (isRaw(db)) return propertyOverrides(db.prepare(OVERRIDES).all() as OverrideRow[]);
-  return db.all<OverrideRow>(OVERRIDES).then(propertyOverrides);
+export async function loadPropertyOverrides(db: SqlExecutor): Promise<Map<string, PropertyOverrides>> {
+  return propertyOverrides(await db.all<OverrideRow>(OVERRIDES));
 }
 
 /**

@@ -2,7 +2,6 @@ import { completeCheckSettings, CHECK_SETTING_DEFS, defaultCheckSettings, type C
 import type { SettingDef } from "../domain/setting-def";
 import { RULE_CATALOGUE, type RuleInfo } from "../domain/checks/index";
 import { appendAuditEvent } from "../db/audit-raw";
-import { sqlite, type SqliteDatabase } from "../db/connection";
 import { sql, type SqlDatabase, type SqlExecutor } from "../db/sql";
 import { getSettingsVersion, insertSettingsVersion, latestSettingsVersion, listSettingsVersions, type SettingsVersionRow } from "../db/settings";
 import { checkSettingsInputSchema } from "../schemas/check-settings";
@@ -44,32 +43,6 @@ export async function currentCheckSettings(db: SqlExecutor = sql()): Promise<Set
 export async function checkSettingsVersion(id: number, db: SqlExecutor = sql()): Promise<SettingsVersionInfo | null> {
   const row = await getSettingsVersion(db, CHECK_SETTINGS_KEY, id);
   return row ? infoOf(row) : null;
-}
-
-/**
- * TRANSITIONAL: currentCheckSettings on the raw SQLite connection, for the callers that still run
- * synchronously on it (coverage, suggestions, and qualityScorer for the bulk writers); they move to
- * currentCheckSettings with the rest of lib/server.
- */
-export function currentCheckSettingsSync(db: SqliteDatabase = sqlite()): SettingsVersionInfo {
-  const latest = () =>
-    db.prepare(`SELECT s.id, s.key, s.value, s.createdById, u.name AS createdByName, s.createdAt FROM SettingsVersion s LEFT JOIN User u ON u.id = s.createdById WHERE s.key = ? ORDER BY s.id DESC LIMIT 1`).get(CHECK_SETTINGS_KEY) as
-      | { id: number; key: string; value: string; createdById: number | null; createdByName: string | null; createdAt: string }
-      | undefined;
-  let row = latest();
-  if (!row) {
-    db.transaction(() => {
-      if (!latest()) db.prepare(`INSERT INTO SettingsVersion (key, value, createdById, createdAt) VALUES (?, ?, NULL, ?)`).run(CHECK_SETTINGS_KEY, JSON.stringify(defaultCheckSettings()), isoNow());
-    })();
-    row = latest()!;
-  }
-  let value: unknown = {};
-  try {
-    value = JSON.parse(row.value);
-  } catch {
-    value = {};
-  }
-  return infoOf({ ...row, value });
 }
 
 export interface CheckSettingsPage {
