@@ -58,9 +58,13 @@ describe("a PostgreSQL DATABASE_URL", () => {
   const cli = (...args: string[]) => spawnSync(process.execPath, ["bin/meltledger.mjs", ...args], { env: { ...process.env, DATABASE_URL: PG_URL }, encoding: "utf8" });
 
   // coverage, backup, migrate and seed needed the SQLite file once; now each goes to the server
+  // (sources, check and users first find the account through Prisma: its connection error counts too)
   test.each([
     ["records", "list", "--json"],
+    ["sources", "list", "--json"],
     ["flags", "list", "--json"],
+    ["check", "--all", "--json"],
+    ["users", "list", "--json"],
     ["coverage", "--json"],
     ["db", "migrate", "--json"],
     ["db", "seed", "--if-empty", "--json"],
