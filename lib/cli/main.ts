@@ -1,6 +1,6 @@
-import { closeSqlite } from "../db/connection";
-import { closeSql } from "../db/sql";
-import { disconnectPrisma } from "../db/client";
+import { closeDatabases } from "../db/databases";
+import { guard } from "../server/result";
+import { reportError } from "./args";
 import type { CliCommand, CliIo } from "./types";
 
 const HELP = `meltledger — curation workbench for LPBF build records
@@ -71,10 +71,12 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
   }
   try {
     return await (await load())(rest, io);
+  } catch (error) {
+    // a failure outside a use case's guard (e.g. finding the acting account) gets the same answer as one inside
+    const r = await guard<never>(() => Promise.reject(error));
+    return r.ok ? 1 : reportError(io, r.error, rest.includes("--json"));
   } finally {
     // a PostgreSQL pool left open would keep the process alive until its idle connections time out
-    await closeSql();
-    await disconnectPrisma();
-    closeSqlite();
+    await closeDatabases();
   }
 }

@@ -12,7 +12,7 @@
  */
 import { createHash } from "node:crypto";
 import pg from "pg";
-import type { SqliteDatabase } from "./connection";
+import { openSqlite, type SqliteDatabase } from "./connection";
 import type { PostgresClient } from "./postgres";
 
 /** Every table of the schema, parents before children, so foreign keys hold after each insert. */
@@ -322,5 +322,29 @@ export async function copySqliteToPostgres(source: SqliteDatabase, target: Postg
     }
   } finally {
     source.exec("COMMIT");
+  }
+}
+
+/** The SQLite file `db copy` reads from, open read-only while the copy runs. */
+export interface SqliteCopySource {
+  /** The file's applied migrations (finished, not rolled back), by name. */
+  appliedMigrations(): string[];
+  /** SHA-256 names of the stored files the database refers to, in order. */
+  storedFileShas(): string[];
+  /** copySqliteToPostgres from this file. */
+  copyTo(target: PostgresClient, options?: CopyOptions): Promise<TableCopyReport[]>;
+}
+
+/** Opens the SQLite file `filePath` read-only (it must exist), runs `body` with it and closes it, whatever `body` does. */
+export async function withSqliteSource<T>(filePath: string, body: (source: SqliteCopySource) => Promise<T>): Promise<T> {
+  const db = openSqlite(filePath, { readonly: true });
+  try {
+    return await body({
+      appliedMigrations: () => (db.prepare(`SELECT migration_name AS name FROM _prisma_migrations WHERE finished_at IS NOT NULL AND rolled_back_at IS NULL ORDER BY migration_name`).all() as { name: string }[]).map((r) => r.name),
+      storedFileShas: () => (db.prepare(`SELECT sha256 FROM StoredFile ORDER BY sha256`).all() as { sha256: string }[]).map((r) => r.sha256),
+      copyTo: (target, options) => copySqliteToPostgres(db, target, options),
+    });
+  } finally {
+    db.close();
   }
 }

@@ -36,10 +36,16 @@ describe("DATABASE_URL's scheme picks the engine", () => {
     expect(redactUrl(url)).toBe(shown);
   });
 
-  test("the SQLite-only location refuses a PostgreSQL URL and says the server layer does not run there yet", () => {
+  test("the SQLite-only location refuses a PostgreSQL URL, saying the operation needs a SQLite file and how to name one", () => {
     const env = { DATABASE_URL: "postgres://lab:secret@db/ml" };
     expect(() => resolveDatabaseLocation(env)).toThrow(EngineNotSupportedError);
-    expect(() => resolveDatabaseLocation(env)).toThrow(/server layer .* does not run on PostgreSQL yet/);
+    expect(() => resolveDatabaseLocation(env)).toThrow(/PostgreSQL server \(postgres:\/\/lab:\*\*\*@db\/ml\), but this operation works on a SQLite file only .*DATABASE_URL naming a SQLite file \(file:/);
     expect(() => resolveDatabaseLocation(env)).not.toThrow(/secret/);
+    // nothing claims the rest of Meltledger is missing on PostgreSQL
+    expect(() => resolveDatabaseLocation(env)).not.toThrow(/not run on PostgreSQL|yet/);
+  });
+
+  test("a SQLite URL gives the same location as resolveDatabaseTarget, without the engine", () => {
+    expect(resolveDatabaseLocation({ DATABASE_URL: "file:/tmp/x.db" }, "/srv")).toEqual({ filePath: "/tmp/x.db", dataDir: "/tmp/files" });
   });
 });

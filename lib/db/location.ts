@@ -45,15 +45,14 @@ export function redactUrl(url: string): string {
 }
 
 /**
- * Raised where a part of Meltledger that works on SQLite only (the raw better-sqlite3 connection
- * and everything built on it) is asked to run against a PostgreSQL DATABASE_URL.
+ * Raised where code that works on a SQLite file only (the raw SQLite connection of connection.ts,
+ * and the SQLite halves of lib/db that use it) is asked to run against a PostgreSQL DATABASE_URL.
+ * Everything above lib/db reaches the engine through engine-neutral functions that pick the
+ * engine's own path, so this marks a SQLite-only call made on the wrong engine.
  */
 export class EngineNotSupportedError extends Error {
   constructor(readonly redactedUrl: string) {
-    super(
-      `DATABASE_URL names a PostgreSQL server (${redactedUrl}), but the Meltledger server layer (the web app, imports, checks, backups and most commands) does not run on PostgreSQL yet: it needs a SQLite file (DATABASE_URL=file:./data/meltledger.db). ` +
-        "PostgreSQL is supported so far as the target of `meltledger db copy` and `meltledger db migrate`.",
-    );
+    super(`DATABASE_URL names a PostgreSQL server (${redactedUrl}), but this operation works on a SQLite file only (it opens the database file directly): run it with DATABASE_URL naming a SQLite file (file:./data/meltledger.db).`);
     this.name = "EngineNotSupportedError";
   }
 }

@@ -20,8 +20,32 @@ export async function withPostgres<T>(url: string, body: (client: PostgresClient
   }
 }
 
-/** True when an error from pg means the server could not be reached or refused the login. */
+// What Prisma's pg adapter calls a failure to reach the server or be let in (@prisma/adapter-pg's
+// error mapping): its DriverAdapterError names the kind in `cause`, and a known request error
+// around it (code P1001 and the like) keeps that under meta.driverAdapterError.
+const ADAPTER_CONNECTION_KINDS = new Set(["DatabaseNotReachable", "DatabaseDoesNotExist", "DatabaseAccessDenied", "AuthenticationFailed", "ConnectionClosed", "SocketTimeout", "TlsConnectionError"]);
+
+function adapterConnectionKind(error: unknown): string | null {
+  const e = error as { cause?: { kind?: unknown }; meta?: { driverAdapterError?: { cause?: { kind?: unknown } } } } | null;
+  const kind = e?.cause?.kind ?? e?.meta?.driverAdapterError?.cause?.kind;
+  return typeof kind === "string" && ADAPTER_CONNECTION_KINDS.has(kind) ? kind : null;
+}
+
+/**
+ * The reason a connection failed in one line: pg's message as it is, or for Prisma's error (whose
+ * message is several lines naming the call that failed) its last line ("Can't reach database
+ * server at db:5432"). Neither holds the password.
+ */
+export function connectionFailureReason(error: unknown): string {
+  const message = (error as Error | null)?.message ?? String(error);
+  if (adapterConnectionKind(error) === null) return message;
+  const lines = message.split("\n").map((l) => l.trim()).filter(Boolean);
+  return lines.at(-1) ?? adapterConnectionKind(error)!;
+}
+
+/** True when an error from pg, or from Prisma's pg adapter, means the server could not be reached or refused the login. */
 export function isPostgresConnectionError(error: unknown): boolean {
+  if (adapterConnectionKind(error) !== null) return true;
   const code = (error as { code?: unknown } | null)?.code;
   // SQLSTATE class 08 = connection exception, 28 = invalid authorization, 3D000 = no such database
   // (PostgreSQL documentation, Appendix A "PostgreSQL Error Codes")

@@ -3,10 +3,12 @@
  * manifest with the SHA-256 of every file. Restore checks the manifest, every hash and the
  * snapshot's integrity before it touches anything, then keeps the replaced database aside.
  *
- * SQLite: the snapshot is made with SQLite's backup API (better-sqlite3's `db.backup()`, safe while
- * the server writes). PostgreSQL: pg_dump's custom format from an exported snapshot, with every
- * table's row count and digest read from the same snapshot (lib/db/backup-postgres.ts); restore
- * runs pg_restore in one transaction into a fresh schema and checks every count and digest.
+ * SQLite: the snapshot is made with SQLite's online backup API, safe while the server writes, and
+ * the manifest's counts read from the snapshot (lib/db/backup-sqlite.ts). PostgreSQL: pg_dump's
+ * custom format from an exported snapshot, with every table's row count and digest read from the
+ * same snapshot (lib/db/backup-postgres.ts); restore runs pg_restore in one transaction into a
+ * fresh schema and checks every count and digest. This module only orchestrates: folders, stored
+ * files, the manifest and the answers; each engine's own work is one lib/db call per step.
  *
  * Layout of a backup folder:
  *   manifest.json
@@ -16,14 +18,12 @@
 import { createHash, randomUUID } from "node:crypto";
 import { createReadStream, existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync, copyFileSync } from "node:fs";
 import path from "node:path";
-import Database from "better-sqlite3";
 import { z } from "zod";
 import { checkArchive, dumpPostgres, PgToolError, restorePostgres, schemaContents, tableDigests } from "../db/backup-postgres";
-import { closeSqlite, sqlite } from "../db/connection";
-import { disconnectPrisma } from "../db/client";
+import { moveSqliteFile, snapshotSqlite, SnapshotWriteError, sqliteFileIntegrity } from "../db/backup-sqlite";
+import { closeDatabases } from "../db/databases";
 import { resolveDatabaseTarget } from "../db/location";
 import { withPostgres } from "../db/postgres";
-import { closeSql } from "../db/sql";
 import { AppFailure, fail, guard, ok, type Result } from "./result";
 
 export const BACKUP_FORMAT = "meltledger-backup";
@@ -78,28 +78,6 @@ async function sha256Of(file: string): Promise<string> {
   const hash = createHash("sha256");
   for await (const chunk of createReadStream(file)) hash.update(chunk as Buffer);
   return hash.digest("hex");
-}
-
-const COUNTED_TABLES = ["BuildRecord", "Source", "Flag", "AuditEvent", "User", "StoredFile", "SourceDocument", "ImportRun"] as const;
-
-function countsOf(db: Database.Database): Record<string, number> {
-  const out: Record<string, number> = {};
-  for (const t of COUNTED_TABLES) {
-    const exists = db.prepare(`SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?`).get(t);
-    if (exists) out[t] = (db.prepare(`SELECT COUNT(*) AS n FROM "${t}"`).get() as { n: number }).n;
-  }
-  return out;
-}
-
-function integrityOf(db: Database.Database): string {
-  const rows = db.pragma("integrity_check") as { integrity_check: string }[];
-  return rows.map((r) => r.integrity_check).join("; ");
-}
-
-function migrationsOf(db: Database.Database): string[] {
-  const exists = db.prepare(`SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = '_prisma_migrations'`).get();
-  if (!exists) return [];
-  return (db.prepare(`SELECT migration_name AS name FROM _prisma_migrations WHERE finished_at IS NOT NULL ORDER BY migration_name`).all() as { name: string }[]).map((r) => r.name);
 }
 
 function ioFailure(error: unknown, what: string): never {
@@ -221,28 +199,12 @@ export async function backupDatabase(out: string): Promise<Result<BackupSummary>
       if (where.engine === "postgresql") return await backupPostgres(where, work, target);
       const { filePath, dataDir } = where;
       const snapshot = path.join(work, DB_NAME);
-      try {
-        await sqlite().backup(snapshot);
-      } catch (e) {
-        if ((e as { code?: string }).code?.startsWith("SQLITE_") && !/FULL|CANTOPEN|READONLY|IOERR/.test((e as { code: string }).code)) throw e;
-        ioFailure(e, snapshot);
-      }
-      const snap = new Database(snapshot, { readonly: true, fileMustExist: true });
-      let integrity: string;
-      let counts: Record<string, number>;
-      let migrations: string[];
-      let shas: string[];
-      try {
-        integrity = integrityOf(snap);
-        counts = countsOf(snap);
-        migrations = migrationsOf(snap);
-        const hasFiles = snap.prepare(`SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = 'StoredFile'`).get();
-        shas = hasFiles ? (snap.prepare(`SELECT sha256 FROM StoredFile ORDER BY sha256`).all() as { sha256: string }[]).map((r) => r.sha256) : [];
-      } finally {
-        snap.close();
-      }
+      const { integrity, counts, migrations, storedFiles } = await snapshotSqlite(snapshot).catch((e: unknown) => {
+        if (e instanceof SnapshotWriteError) ioFailure(e.cause, snapshot);
+        throw e;
+      });
       if (integrity !== "ok") return fail("internal", `The snapshot failed SQLite's integrity check (${integrity}); no backup was written.`);
-      const { files, missingFiles, fileBytes } = await copyStoredFiles(shas, dataDir, work);
+      const { files, missingFiles, fileBytes } = await copyStoredFiles(storedFiles, dataDir, work);
       const databaseBytes = statSync(snapshot).size;
       const manifest: BackupManifest = {
         format: BACKUP_FORMAT,
@@ -318,13 +280,8 @@ export async function verifyBackup(dir: string): Promise<Result<BackupManifest>>
       }
       return ok(manifest);
     }
-    const snap = new Database(path.join(root, DB_NAME), { readonly: true, fileMustExist: true });
-    try {
-      const integrity = integrityOf(snap);
-      if (integrity !== "ok") return fail("invalid_input", `The backup's database fails SQLite's integrity check (${integrity}); nothing was restored.`);
-    } finally {
-      snap.close();
-    }
+    const integrity = sqliteFileIntegrity(path.join(root, DB_NAME));
+    if (integrity !== "ok") return fail("invalid_input", `The backup's database fails SQLite's integrity check (${integrity}); nothing was restored.`);
     return ok(manifest);
   });
 }
@@ -365,8 +322,7 @@ async function restorePostgresBackup(root: string, manifest: BackupManifest, whe
   const db = manifest.database;
   if (db.engine !== "postgresql") throw new Error("restorePostgresBackup: not a PostgreSQL backup");
   // nothing of this process may hold the schema that is renamed
-  await disconnectPrisma();
-  await closeSql();
+  await closeDatabases();
   const stamp = new Date().toISOString().replace(/[-:.TZ]/g, "").slice(0, 17);
   const restored = await withPostgres(where.url, async (client) => {
     const before = await schemaContents(client);
@@ -447,8 +403,7 @@ export async function restoreDatabase(dir: string, options: RestoreOptions = {})
       ioFailure(e, folder);
     }
     // 2. the switch: the current database goes aside (never deleted), the snapshot takes its name
-    await disconnectPrisma();
-    closeSqlite();
+    await closeDatabases();
     let previousDatabase: string | null = null;
     try {
       if (existsSync(filePath)) {
@@ -456,13 +411,12 @@ export async function restoreDatabase(dir: string, options: RestoreOptions = {})
         mkdirSync(keep, { recursive: true });
         const stamp = new Date().toISOString().replace(/[:.]/g, "-");
         previousDatabase = path.join(keep, `${path.basename(filePath, ".db")}-before-restore-${stamp}.db`);
-        renameSync(filePath, previousDatabase);
-        for (const suffix of ["-wal", "-shm"]) if (existsSync(filePath + suffix)) renameSync(filePath + suffix, previousDatabase + suffix);
+        moveSqliteFile(filePath, previousDatabase);
       }
       renameSync(staged, filePath);
     } catch (e) {
-      // put the old file back if it was moved and the new one is not in place
-      if (previousDatabase && !existsSync(filePath) && existsSync(previousDatabase)) renameSync(previousDatabase, filePath);
+      // put the old file (and its log) back if it was moved and the new one is not in place
+      if (previousDatabase && !existsSync(filePath) && existsSync(previousDatabase)) moveSqliteFile(previousDatabase, filePath);
       if (existsSync(staged)) rmSync(staged, { force: true });
       ioFailure(e, filePath);
     }

@@ -13,8 +13,7 @@
 import { createHash, randomUUID } from "node:crypto";
 import { copyFileSync, createReadStream, existsSync, mkdirSync, renameSync, rmSync, statSync } from "node:fs";
 import path from "node:path";
-import { openSqlite } from "../db/connection";
-import { copySqliteToPostgres, CopyError, type TableCopyReport } from "../db/copy-to-postgres";
+import { CopyError, withSqliteSource, type TableCopyReport } from "../db/copy-to-postgres";
 import { MigrationError, readMigrations } from "../db/migrate";
 import { migratePostgres } from "../db/migrate-postgres";
 import { describeConnectionError, isPostgresConnectionError, withPostgres } from "../db/postgres";
@@ -97,14 +96,13 @@ export async function copyDatabase(request: DbCopyRequest, options: { batchRows?
     const { filePath, dataDir } = resolveDatabaseLocation({ DATABASE_URL: request.from });
     if (!existsSync(filePath)) return fail("not_found", `There is no SQLite database at ${filePath}.`);
     const filesTo = path.resolve(request.filesTo);
-    const source = openSqlite(filePath, { readonly: true });
-    try {
-      const applied = (source.prepare(`SELECT migration_name AS name FROM _prisma_migrations WHERE finished_at IS NOT NULL AND rolled_back_at IS NULL ORDER BY migration_name`).all() as { name: string }[]).map((r) => r.name);
+    return withSqliteSource(filePath, async (source) => {
+      const applied = source.appliedMigrations();
       const expected = readMigrations().map((m) => m.name);
       if (applied.join(",") !== expected.join(",")) {
         return fail("conflict", `The SQLite database is at migrations [${applied.join(", ")}], this version at [${expected.join(", ")}]. Run \`meltledger db migrate\` on it (DATABASE_URL=${request.from}) with this version first.`);
       }
-      const shas = (source.prepare(`SELECT sha256 FROM StoredFile ORDER BY sha256`).all() as { sha256: string }[]).map((r) => r.sha256);
+      const shas = source.storedFileShas();
       const problems: string[] = [];
       for (const sha of shas) {
         if (!SHA256_HEX.test(sha)) problems.push(`${sha} (not a SHA-256)`);
@@ -123,7 +121,7 @@ export async function copyDatabase(request: DbCopyRequest, options: { batchRows?
           if (migrated.applied.length) options.onProgress?.(`PostgreSQL migrations applied: ${migrated.applied.join(", ")}`);
           let reports: TableCopyReport[];
           try {
-            reports = await copySqliteToPostgres(source, client, {
+            reports = await source.copyTo(client, {
               batchRows: options.batchRows,
               readPageRows: options.readPageRows,
               onTable: (r) => options.onProgress?.(`${r.table}: ${r.targetRows} row(s) written and read back`),
@@ -155,8 +153,6 @@ export async function copyDatabase(request: DbCopyRequest, options: { batchRows?
         if (error instanceof MigrationError) return fail("conflict", `The PostgreSQL database could not be prepared: ${error.message} Give a new, empty database.`);
         throw error;
       }
-    } finally {
-      source.close();
-    }
+    });
   });
 }

@@ -1,11 +1,8 @@
-import { existsSync, mkdirSync, renameSync } from "node:fs";
+import { existsSync, mkdirSync } from "node:fs";
 import path from "node:path";
-import { closeSqlite, sqlite } from "../db/connection";
-import { disconnectPrisma } from "../db/client";
-import { migrate } from "../db/migrate";
-import { migratePostgres } from "../db/migrate-postgres";
-import { describeConnectionError, isPostgresConnectionError, withPostgres } from "../db/postgres";
-import { resolveDatabaseTarget, type DatabaseEngine } from "../db/location";
+import { moveSqliteFile } from "../db/backup-sqlite";
+import { applyMigrations, closeDatabases, DatabaseUnreachableError, type MigrationsSummary } from "../db/databases";
+import { resolveDatabaseTarget } from "../db/location";
 import { sql } from "../db/sql";
 import { AppFailure, fail, guard, ok, type Result } from "./result";
 
@@ -14,22 +11,14 @@ import { AppFailure, fail, guard, ok, type Result } from "./result";
  * file, prisma/postgres/migrations on a PostgreSQL server. `filePath` is the SQLite file, or the
  * server's URL with its password hidden.
  */
-export interface MigrateSummary {
-  filePath: string;
-  engine: DatabaseEngine;
-  applied: string[];
-  alreadyApplied: string[];
-}
+export type MigrateSummary = MigrationsSummary;
 
 export async function migrateDatabase(): Promise<Result<MigrateSummary>> {
   return guard<MigrateSummary>(async () => {
-    const target = resolveDatabaseTarget();
-    if (target.engine === "sqlite") return ok({ filePath: target.filePath, engine: "sqlite", ...migrate(sqlite()) });
     try {
-      const r = await withPostgres(target.url, (client) => migratePostgres(client));
-      return ok({ filePath: target.redactedUrl, engine: "postgresql", ...r });
+      return ok(await applyMigrations());
     } catch (error) {
-      if (isPostgresConnectionError(error)) return fail("unavailable", `${describeConnectionError(target.url, error)}.`);
+      if (error instanceof DatabaseUnreachableError) return fail("unavailable", error.message);
       throw error;
     }
   });
@@ -57,13 +46,11 @@ export async function setDatabaseAside(): Promise<string | null> {
   }
   const { filePath } = where;
   if (!existsSync(filePath)) return null;
-  await disconnectPrisma();
-  closeSqlite();
+  await closeDatabases();
   const keep = path.join(path.dirname(filePath), "previous");
   mkdirSync(keep, { recursive: true });
   const stamp = new Date().toISOString().replace(/[:.]/g, "-");
   const target = path.join(keep, `${path.basename(filePath, ".db")}-${stamp}.db`);
-  renameSync(filePath, target);
-  for (const suffix of ["-wal", "-shm"]) if (existsSync(filePath + suffix)) renameSync(filePath + suffix, target + suffix);
+  moveSqliteFile(filePath, target);
   return target;
 }

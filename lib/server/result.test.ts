@@ -50,4 +50,26 @@ describe("PostgreSQL errors", () => {
   test("a constraint violation (23505) is not mistaken for an unavailable server", () => {
     expect(postgresFailure(pgError("23505"))).toBeNull();
   });
+
+  // the shapes Prisma's pg adapter throws when the server is down: a DriverAdapterError, and a known request error around one
+  const adapterDown = () => Object.assign(new Error("DatabaseNotReachable"), { name: "DriverAdapterError", cause: { kind: "DatabaseNotReachable", host: "db.example", port: 5432 } });
+  const prismaDown = () =>
+    Object.assign(new Error("\nInvalid `db.source.findMany()` invocation in\n/srv/lib/db/sources.ts:82:32\n\n  79 …\nCan't reach database server at db.example:5432"), {
+      code: "P1001",
+      meta: { modelName: "Source", driverAdapterError: { cause: { kind: "DatabaseNotReachable", host: "db.example", port: 5432 } } },
+    });
+  test.each([
+    ["the adapter's error", adapterDown, "DatabaseNotReachable"],
+    ["Prisma's request error around it", prismaDown, "Can't reach database server at db.example:5432"],
+  ])("%s is unavailable with a one-line reason, never internal", async (_, make, reason) => {
+    const r = await guard(async () => {
+      throw make();
+    });
+    expect(!r.ok && r.error).toEqual({ code: "unavailable", message: `The PostgreSQL server cannot be reached or refused the connection (${reason}); nothing was changed. Try again when it is back.`, details: { engine: "postgresql" } });
+  });
+
+  test("an adapter error of another kind (a unique constraint) is not an unavailable server", () => {
+    expect(postgresFailure(Object.assign(new Error("adapter"), { cause: { kind: "UniqueConstraintViolation" } }))).toBeNull();
+    expect(postgresFailure(Object.assign(new Error("prisma"), { code: "P2002", meta: { driverAdapterError: { cause: { kind: "UniqueConstraintViolation" } } } }))).toBeNull();
+  });
 });

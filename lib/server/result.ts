@@ -2,7 +2,7 @@ import type { FieldErrors } from "../schemas/issues";
 import { fieldErrorsOf } from "../schemas/issues";
 import type { z } from "zod";
 import { EngineNotSupportedError } from "../db/location";
-import { isPostgresConnectionError } from "../db/postgres";
+import { connectionFailureReason, isPostgresConnectionError } from "../db/postgres";
 
 export type AppErrorCode =
   | "invalid_input"
@@ -106,7 +106,7 @@ export function storageFailure(error: unknown): { ok: false; error: AppError } |
  */
 export function postgresFailure(error: unknown): { ok: false; error: AppError } | null {
   if (isPostgresConnectionError(error)) {
-    return fail("unavailable", `The PostgreSQL server cannot be reached or refused the connection (${(error as Error).message}); nothing was changed. Try again when it is back.`, { engine: "postgresql" });
+    return fail("unavailable", `The PostgreSQL server cannot be reached or refused the connection (${connectionFailureReason(error)}); nothing was changed. Try again when it is back.`, { engine: "postgresql" });
   }
   const code = (error as { code?: unknown } | null)?.code;
   // SQLSTATE 40001 serialization_failure, 40P01 deadlock_detected (PostgreSQL documentation, Appendix A)

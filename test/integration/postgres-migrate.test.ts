@@ -151,7 +151,7 @@ describePostgres("PostgreSQL migrations", () => {
     const event = await db.auditEvent.create({ data: { actorName: "t", action: "create", entityType: "user", entityId: String(user.id) } });
     await expect(db.auditEvent.update({ where: { id: event.id }, data: { action: "x" } })).rejects.toThrow(/append-only/);
     expect(() => sqlite()).toThrow(EngineNotSupportedError);
-    expect(() => sqlite()).toThrow(/does not run on PostgreSQL yet/);
+    expect(() => sqlite()).toThrow(/this operation works on a SQLite file only/);
   });
 
   test("`db migrate` on a PostgreSQL DATABASE_URL runs the PostgreSQL migrations", async () => {
