@@ -23,6 +23,7 @@ import { z } from "zod";
 import { requireRole, type Actor } from "./actor";
 import { checkSettingsVersion, currentCheckSettings, isoNow, type SettingsVersionInfo } from "./check-settings";
 import { fail, guard, invalid, ok, type Result } from "./result";
+import { rowIdSchema } from "../schemas/ids";
 
 export interface CheckRunSummary {
   settingsVersion: number;
@@ -238,8 +239,8 @@ export async function checksAfterSave(ids: readonly number[]): Promise<CheckRunS
 
 const runSchema = z.object({
   all: z.boolean().default(false),
-  recordIds: z.array(z.coerce.number().int().positive()).default([]),
-  settingsVersion: z.coerce.number().int().positive().nullish(),
+  recordIds: z.array(rowIdSchema).default([]),
+  settingsVersion: rowIdSchema.nullish(),
 });
 
 /**

@@ -15,6 +15,7 @@ import { requireRole, type Actor } from "./actor";
 import { checksAfterSave, qualityScorerFor } from "./checks";
 import { prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
 import { fail, guard, ok, type Result } from "./result";
+import { rowIdSchema } from "../schemas/ids";
 
 // ---------------------------------------------------------------------------------------------
 // Where the rows come from
@@ -646,7 +647,7 @@ export async function commitImport(input: TableInput, options: ImportOptions, ac
 
 const presetInput = z.object({
   name: z.string().trim().min(1, { message: "Name the preset." }).max(100),
-  sourceId: z.coerce.number().int().positive().nullable().default(null),
+  sourceId: rowIdSchema.nullable().default(null),
 });
 
 /** Saves a mapping as a named preset (sourceId null) or as the mapping of a source. */

@@ -11,6 +11,7 @@ import { requireRole, type Actor } from "./actor";
 import { checksAfterSave } from "./checks";
 import { prepareRecord } from "./record-write";
 import { AppFailure, fail, guard, invalid, ok, type Result } from "./result";
+import { isRowId, rowIdSchema } from "../schemas/ids";
 
 /** The part of a record worth showing in an audit diff. */
 function auditView(r: RecordRow) {
@@ -82,8 +83,8 @@ export async function updateRecord(input: unknown, actor: Actor): Promise<Result
 }
 
 const rejectSchema = z.object({
-  id: z.coerce.number().int().positive(),
-  version: z.coerce.number().int().positive(),
+  id: rowIdSchema,
+  version: rowIdSchema,
   reason: z.string().trim().min(3, { message: "Say why the record is rejected (at least 3 characters)." }).max(1000),
 });
 
@@ -115,7 +116,7 @@ export interface RecordPage {
 
 export async function getRecordPage(id: number): Promise<Result<RecordPage>> {
   return guard(async () => {
-    if (!Number.isInteger(id) || id <= 0) return fail("not_found", "No such record.");
+    if (!isRowId(id)) return fail("not_found", "No such record.");
     const record = await getRecordDetail(id);
     if (!record) return fail("not_found", `Record ${id} does not exist.`);
     // The record's own events and the batch (import, seed) that created it, oldest first.

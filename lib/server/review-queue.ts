@@ -11,6 +11,7 @@ import { openFlagCounts, openFlagsOfRecord, reviewQueuePage, type FlagCounts } f
 import { queueRecord } from "../db/reviews";
 import { sql, type SqlExecutor } from "../db/sql";
 import { guard, invalid, ok, type Result } from "./result";
+import { rowIdSchema } from "../schemas/ids";
 
 export interface QueueValue {
   field: string;
@@ -105,7 +106,7 @@ const PAIR_CODES = new Set(["duplicate.exact", "duplicate.near", "duplicate.labe
 
 const querySchema = z.object({
   code: z.string().trim().max(100).nullish().transform((v) => v || null),
-  sourceId: z.preprocess((v) => (v === "" || v === undefined || v === null ? null : v), z.coerce.number().int().positive().nullable()).default(null),
+  sourceId: z.preprocess((v) => (v === "" || v === undefined || v === null ? null : v), rowIdSchema.nullable()).default(null),
   page: z.preprocess((v) => (v === "" || v === undefined || v === null ? 0 : v), z.coerce.number().int().min(0).max(100_000)).default(0),
   pageSize: z.preprocess((v) => (v === "" || v === undefined || v === null ? 20 : v), z.coerce.number().int().min(1).max(100)).default(20),
 });

@@ -6,6 +6,7 @@ import { findSourceByDoi, findSourcesByTitleKey, getSource, getSourceTx, insertS
 import { sourceInputSchema, sourceUpdateSchema, type SourceValues } from "../schemas/source";
 import { requireRole, type Actor } from "./actor";
 import { AppFailure, fail, guard, invalid, ok, type Result } from "./result";
+import { isRowId } from "../schemas/ids";
 
 function toData(v: SourceValues): { ok: true; data: SourceData } | { ok: false; field: string; message: string } {
   let doi: string | null = null;
@@ -100,7 +101,7 @@ export interface SourcePage {
 
 export async function getSourcePage(id: number): Promise<Result<SourcePage>> {
   return guard(async () => {
-    if (!Number.isInteger(id) || id <= 0) return fail("not_found", "No such source.");
+    if (!isRowId(id)) return fail("not_found", "No such source.");
     const source = await getSource(id);
     if (!source) return fail("not_found", `Source ${id} does not exist.`);
     return ok({ source, history: await listAuditFor("source", id) });

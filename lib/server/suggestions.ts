@@ -21,6 +21,7 @@ import { currentCheckSettings } from "./check-settings";
 import { DEFAULT_WINDOW_PLANE } from "./coverage";
 import { DEFAULT_AMBIENT_TEMPERATURE_K } from "./meltpool";
 import { fail, guard, invalid, ok, type Result } from "./result";
+import { isRowId } from "../schemas/ids";
 
 /** What a set was made from: enough to make it again. */
 export interface SuggestionInputs {
@@ -167,7 +168,7 @@ export async function createSuggestionSet(input: unknown, actor: Actor, now: () 
 export async function getSuggestionSetView(id: unknown): Promise<Result<SuggestionSetView>> {
   return guard(async (): Promise<Result<SuggestionSetView>> => {
     const n = Number(id);
-    if (!Number.isInteger(n) || n <= 0) return fail("not_found", "No such suggestion set.");
+    if (!isRowId(n)) return fail("not_found", "No such suggestion set.");
     const row = await getSuggestionSet(n);
     if (!row) return fail("not_found", `Suggestion set ${n} does not exist.`);
     const stored = row.suggestions as StoredSuggestions;
