@@ -188,7 +188,7 @@ export async function storeImportFile(input: Chunks, kind: "csv" | "xlsx", fileN
 }
 
 export async function listDocuments(sourceId: number): Promise<Result<SourceDocumentRow[]>> {
-  return guard(async () => ok(await listSourceDocuments(sourceId)));
+  return guard(async () => ok(isRowId(sourceId) ? await listSourceDocuments(sourceId) : []));
 }
 
 /** A source's PDFs and its DOI, for the paper pane (which offers a DOI found in the paper). */

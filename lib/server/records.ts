@@ -10,7 +10,7 @@ import { z } from "zod";
 import { requireRole, type Actor } from "./actor";
 import { checksAfterSave } from "./checks";
 import { prepareRecord } from "./record-write";
-import { AppFailure, fail, guard, invalid, ok, type Result } from "./result";
+import { AppFailure, fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
 import { isRowId, rowIdSchema } from "../schemas/ids";
 
 /** The part of a record worth showing in an audit diff. */
@@ -23,6 +23,8 @@ function auditView(r: RecordRow) {
 export async function createRecord(input: unknown, actor: Actor): Promise<Result<{ id: number; version: number }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = recordInputSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const prepared = prepareRecord(parsed.data);
@@ -47,6 +49,8 @@ export async function createRecord(input: unknown, actor: Actor): Promise<Result
 export async function updateRecord(input: unknown, actor: Actor): Promise<Result<{ id: number; version: number }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = recordUpdateSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const { id, version, reason, ...values } = parsed.data;
@@ -92,6 +96,8 @@ const rejectSchema = z.object({
 export async function rejectRecord(input: unknown, actor: Actor): Promise<Result<{ id: number; version: number }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = rejectSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const { id, version, reason } = parsed.data;
@@ -136,6 +142,8 @@ export interface RecordsPage {
 /** One page of the records table; filters, sort and paging validated by the shared schema. Runs on either engine. */
 export async function listRecords(input: unknown): Promise<Result<RecordsPage>> {
   return guard(async () => {
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = recordsQuerySchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The table filters need attention.");
     // the total and the rows from one snapshot, so a page never disagrees with its count

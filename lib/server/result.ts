@@ -1,5 +1,6 @@
 import type { FieldErrors } from "../schemas/issues";
 import { fieldErrorsOf } from "../schemas/issues";
+import { NUL_MESSAGE, nulCharacterPath } from "../schemas/plain-input";
 import type { z } from "zod";
 import { EngineNotSupportedError } from "../db/location";
 import { isPostgresConnectionError } from "../db/postgres";
@@ -28,6 +29,17 @@ export const fail = (code: AppErrorCode, message: string, details?: AppError["de
   ok: false,
   error: details ? { code, message, details } : { code, message },
 });
+
+/**
+ * An input with a NUL character in any text as `invalid_input` naming the field (PostgreSQL cannot
+ * store it, SQLite could: refused alike on both), or null. Use cases call it before parsing.
+ */
+export function nulRefusal(input: unknown): { ok: false; error: AppError } | null {
+  const at = nulCharacterPath(input);
+  if (at === null) return null;
+  const field = at || "input";
+  return fail("invalid_input", `"${field}" contains a NUL character (\\u0000), which the database cannot store; remove it. Nothing was changed.`, { fieldErrors: { [field]: [NUL_MESSAGE] } });
+}
 
 /** A zod failure as an invalid_input error with field messages. */
 export function invalid(error: z.ZodError, message = "Some fields need attention."): { ok: false; error: AppError } {

@@ -10,7 +10,7 @@ import { CANONICAL_UNIT } from "../domain/units";
 import { openFlagCounts, openFlagsOfRecord, reviewQueuePage, type FlagCounts } from "../db/flags";
 import { queueRecord } from "../db/reviews";
 import { sql, type SqlExecutor } from "../db/sql";
-import { guard, invalid, ok, type Result } from "./result";
+import { guard, invalid, nulRefusal, ok, type Result } from "./result";
 import { rowIdSchema } from "../schemas/ids";
 
 export interface QueueValue {
@@ -114,6 +114,8 @@ const querySchema = z.object({
 /** One page of the queue (filters: a rule-code prefix and a source). */
 export async function getReviewQueue(input: unknown): Promise<Result<ReviewQueue>> {
   return guard(async () => {
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = querySchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The queue filter needs attention.");
     const { code, sourceId, page, pageSize } = parsed.data;
