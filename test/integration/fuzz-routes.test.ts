@@ -130,11 +130,19 @@ describeEachEngine("fuzzing", (current: () => EngineDatabase, engine: DatabaseEn
     return table[name] ?? null;
   }
 
-  /** Checks one outcome: no throw but a redirect, no 500, no internal, and a refusal writes nothing. */
-  async function expectSafe(label: string, call: () => Promise<{ refused: boolean; status: number; code?: string; body?: unknown }>): Promise<void> {
+  /** Error details of a refusal that carry the database's own SQLSTATE (guard()'s net under validation). */
+  type Details = { details?: { sqlstate?: unknown } };
+  type Outcome = { refused: boolean; status: number; code?: string; body?: unknown; sqlstate?: unknown };
+
+  /**
+   * Checks one outcome: no throw but a redirect, no 500, no internal, a refusal writes nothing,
+   * and nothing was refused by PostgreSQL itself (a SQLSTATE in the error: validation let through
+   * a value SQLite would have taken, so the engines answer differently).
+   */
+  async function expectSafe(label: string, call: () => Promise<Outcome>): Promise<void> {
     total++;
     const before = await counts();
-    let outcome: { refused: boolean; status: number; code?: string; body?: unknown };
+    let outcome: Outcome;
     try {
       outcome = await call();
     } catch (error) {
@@ -143,6 +151,7 @@ describeEachEngine("fuzzing", (current: () => EngineDatabase, engine: DatabaseEn
     }
     await settleJob(outcome.body);
     if (outcome.status >= 500 || outcome.code === "internal") throw new Error(`${label}: status ${outcome.status} ${outcome.code ?? ""} ${JSON.stringify(outcome.body)?.slice(0, 400)}`);
+    if (outcome.sqlstate !== undefined) throw new Error(`${label}: refused by the database itself (SQLSTATE ${String(outcome.sqlstate)}), not by validation: ${JSON.stringify(outcome.body)?.slice(0, 400)}`);
     if (outcome.refused) {
       const after = await counts();
       if (after !== before) throw new Error(`${label}: refused (${outcome.status} ${outcome.code}) but rows changed: ${before} -> ${after}`);
@@ -226,9 +235,9 @@ const queryArb = fc.array(fc.tuple(fc.constantFrom(...QUERY_KEYS), fc.oneof({ we
               await expectSafe(`${method} ${url} ${body.kind}`, async () => {
                 const res = await handler(requestOf(method, url, body), { params: Promise.resolve(params) });
                 const type = res.headers.get("content-type") ?? "";
-                const json = type.includes("json") ? ((await res.json()) as { error?: { code?: string } }) : null;
+                const json = type.includes("json") ? ((await res.json()) as { error?: { code?: string } & Details }) : null;
                 if (!type.includes("json")) await res.arrayBuffer();
-                return { refused: res.status >= 400, status: res.status, code: json?.error?.code, body: json };
+                return { refused: res.status >= 400, status: res.status, code: json?.error?.code, body: json, sqlstate: json?.error?.details?.sqlstate };
               });
             }),
             { numRuns: RUNS },
@@ -245,7 +254,7 @@ const queryArb = fc.array(fc.tuple(fc.constantFrom(...QUERY_KEYS), fc.oneof({ we
     });
     for (const c of cases) {
       test(`${c.name} (${path.relative(ROOT, c.file)}): never internal, a refusal writes nothing (${RUNS} inputs)`, async () => {
-        const mod = (await import(c.file)) as Record<string, (input: unknown, second?: unknown) => Promise<{ ok: boolean; error?: { code: string }; data?: unknown }>>;
+        const mod = (await import(c.file)) as Record<string, (input: unknown, second?: unknown) => Promise<{ ok: boolean; error?: { code: string } & Details; data?: unknown }>>;
         const fn = mod[c.name]!;
         const second = c.second === "actor" ? actor : c.second === "facts" ? { method: "POST", host: "127.0.0.1", origin: null, forwardedFor: null, forwardedProto: null, sessionToken: null } : undefined;
         await fc.assert(
@@ -254,7 +263,7 @@ const queryArb = fc.array(fc.tuple(fc.constantFrom(...QUERY_KEYS), fc.oneof({ we
             fc.pre(forbiddenKeyPath(input) === null);
             await expectSafe(`${c.name}(${JSON.stringify(input)?.slice(0, 200)})`, async () => {
               const r = await fn(input, second);
-              return { refused: !r.ok, status: r.ok ? 200 : 400, code: r.error?.code, body: r.data };
+              return { refused: !r.ok, status: r.ok ? 200 : 400, code: r.error?.code, body: r.data ?? r.error, sqlstate: r.error?.details?.sqlstate };
             });
           }),
           { numRuns: RUNS },
@@ -278,9 +287,9 @@ const queryArb = fc.array(fc.tuple(fc.constantFrom(...QUERY_KEYS), fc.oneof({ we
               const takesForm = /FormData/.test(params);
               const args = action.length >= 2 ? [null, form] : action.length === 1 ? [takesForm ? form : input] : [];
               await expectSafe(`${name}`, async () => {
-                const r = (await action(...args)) as { error?: { code?: string }; ok?: boolean } | null | undefined;
+                const r = (await action(...args)) as { error?: { code?: string } & Details; ok?: boolean } | null | undefined;
                 const code = r?.error?.code;
-                return { refused: Boolean(r && (r.error || r.ok === false)), status: code ? 400 : 200, code };
+                return { refused: Boolean(r && (r.error || r.ok === false)), status: code ? 400 : 200, code, body: r?.error, sqlstate: r?.error?.details?.sqlstate };
               });
             }),
             { numRuns: RUNS },
@@ -307,7 +316,7 @@ const queryArb = fc.array(fc.tuple(fc.constantFrom(...QUERY_KEYS), fc.oneof({ we
             const input = { kind: "paste" as const, text, fileName: "fuzz" };
             const options = { mapping: null, sourceId: ids.source, excludeErrors, deferChecks: true };
             const r = commit ? await commitImport(input, options, actor) : await previewImport(input, options);
-            return { refused: !r.ok || !commit, status: r.ok ? 200 : 400, code: r.ok ? undefined : r.error.code };
+            return { refused: !r.ok || !commit, status: r.ok ? 200 : 400, code: r.ok ? undefined : r.error.code, body: r.ok ? undefined : r.error, sqlstate: r.ok ? undefined : r.error.details?.sqlstate };
           });
         }),
         { numRuns: RUNS * 2 },
