@@ -38,6 +38,8 @@ describe("normalizeDoi", () => {
     "11.5555/abc",
     "https://example.org/10.5555/abc",
     "https://doi.org/10.5555%ZZabc",
+    "10.5555/nul\u0000here", // a control character (PostgreSQL text cannot even hold NUL)
+    "https://doi.org/10.5555/esc%00aped",
   ])("%j -> null", (text) => {
     expect(normalizeDoi(text)).toBeNull();
   });

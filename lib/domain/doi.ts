@@ -2,8 +2,12 @@
  * Keys for finding the same source twice: a normalized DOI and a normalized title.
  */
 
-/** DOI syntax: directory indicator "10.", a registrant code of 4–9 digits, "/", a suffix. */
-const DOI_PATTERN = /^10\.\d{4,9}\/\S+$/;
+/**
+ * DOI syntax: directory indicator "10.", a registrant code of 4–9 digits, "/", a suffix of
+ * printable characters (the DOI Handbook allows any printable Unicode in the suffix, from memory):
+ * no white space and no control characters such as NUL, which no DOI holds.
+ */
+const DOI_PATTERN = /^10\.\d{4,9}\/[^\s\p{Cc}]+$/u;
 
 // resolver and label prefixes, in any case: doi:, doi.org/, dx.doi.org/, with or without scheme
 const PREFIX = /^(?:(?:https?:\/\/)?(?:www\.)?(?:dx\.)?doi\.org\/|doi\s*:?\s*)/i;

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { CHECK_SETTING_DEFS, checkSettingsProblems } from "../domain/check-settings";
+import { MAX_ROW_ID } from "./ids";
 
 const number = z.preprocess(
   (v) => (typeof v === "string" ? (v.trim() === "" ? Number.NaN : Number(v.trim().replace(",", "."))) : v),
@@ -14,7 +15,7 @@ const number = z.preprocess(
 export const checkSettingsInputSchema = z
   .object({
     values: z.record(z.string(), number),
-    basedOnVersion: z.preprocess((v) => (v === "" || v === undefined || v === null ? null : Number(v)), z.number().int().positive().nullable()),
+    basedOnVersion: z.preprocess((v) => (v === "" || v === undefined || v === null ? null : Number(v)), z.number().int().positive().max(MAX_ROW_ID).nullable()),
     reason: z.string().trim().min(3, { message: "Say why the thresholds change (at least 3 characters)." }).max(1000),
   })
   .superRefine((input, ctx) => {

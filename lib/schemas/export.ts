@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { parseSplitSpec } from "../domain/export/splits";
 import { BALANCE_METHODS, FEATURE_GROUPS, LABEL_SCHEMES, type ExportOptions } from "../domain/export/types";
+import { MAX_ROW_ID } from "./ids";
 
 /** An export run's name: lower-case letters, digits, dot, dash and underscore; safe as a folder name and in a URL. */
 export const EXPORT_NAME_PATTERN = /^[a-z0-9][a-z0-9._-]{0,79}$/;
@@ -31,7 +32,7 @@ export const exportRequestSchema = z
     minQuality: optionalNumber(z.number({ message: "Enter a number from 0 to 1." }).min(0, "From 0 to 1.").max(1, "From 0 to 1.")).default(null),
     includeUnreviewed: flag.default(false),
     alloys: listOf(z.string().min(1).max(100)).default([]),
-    sources: listOf(z.coerce.number({ message: "Source ids are whole numbers." }).int().positive()).default([]),
+    sources: listOf(z.coerce.number({ message: "Source ids are whole numbers." }).int().positive().max(MAX_ROW_ID, { message: "Source ids are whole numbers up to 2,147,483,647." })).default([]),
     enteredFrom: day.default(null),
     enteredTo: day.default(null),
     seed: z.coerce.number({ message: "Enter a whole number." }).int("Enter a whole number.").min(0, "From 0 to 4294967295.").max(4_294_967_295, "From 0 to 4294967295.").default(1),

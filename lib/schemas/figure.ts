@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { FIGURE_QUANTITY_FIELDS } from "../domain/figure-records";
 import { OUTCOMES } from "../domain/outcomes";
+import { MAX_ROW_ID } from "./ids";
 
 const finite = (message: string) => z.coerce.number({ message }).refine(Number.isFinite, { message });
 
@@ -20,7 +21,7 @@ const fixedValue = z.object({ value: z.union([z.string(), z.number()]).transform
 
 /** A figure read into points, as the figure reader sends it to preview or commit. */
 export const figureReadingSchema = z.object({
-  sourceId: z.coerce.number({ message: "Choose the source this figure comes from." }).int().positive({ message: "Choose the source this figure comes from." }),
+  sourceId: z.coerce.number({ message: "Choose the source this figure comes from." }).int().positive({ message: "Choose the source this figure comes from." }).max(MAX_ROW_ID, { message: "Choose the source this figure comes from." }),
   page: z.preprocess((v) => (v === "" || v === undefined ? null : v), z.coerce.number().int().positive().max(100_000).nullable()).default(null),
   figureLabel: z.string().trim().min(1, { message: 'Name the figure, e.g. "Fig. 3".' }).max(40, { message: "Keep the figure label under 40 characters." }),
   alloy: z.string().trim().max(200).default(""),

@@ -3,6 +3,7 @@ import { checkHardLimit, parseQuantity, quantityLabel, type Quantity } from "../
 import { OUTCOMES } from "../domain/outcomes";
 import { energyDensities } from "../domain/energy-density";
 import { toOneOverE2Diameter, type SpotDefinition } from "../domain/spot-definition";
+import { MAX_ROW_ID, rowIdSchema } from "./ids";
 
 /** Record fields entered as text with a unit, and the quantity each one is. */
 export const RECORD_QUANTITY_FIELDS = {
@@ -56,7 +57,7 @@ const quantityShape = Object.fromEntries(RECORD_QUANTITY_FIELD_NAMES.map((f) => 
 
 /** The fields of a build record as a person or an importer enters them. */
 export const recordFieldsSchema = z.object({
-  sourceId: z.coerce.number({ message: "Choose the source this record comes from." }).int().positive({ message: "Choose the source this record comes from." }),
+  sourceId: z.coerce.number({ message: "Choose the source this record comes from." }).int().positive({ message: "Choose the source this record comes from." }).max(MAX_ROW_ID, { message: "Choose the source this record comes from." }),
   locationPage: optionalPositiveInt.default(null),
   locationLabel: optionalText(100),
   alloy: z.string().trim().min(1, { message: "Enter the alloy, e.g. 316L or Ti-6Al-4V." }).max(200),
@@ -135,8 +136,8 @@ export type RecordValues = z.output<typeof recordInputSchema>;
 
 export const recordUpdateSchema = recordFieldsSchema
   .extend({
-    id: z.coerce.number().int().positive(),
-    version: z.coerce.number().int().positive({ message: "The form lost its version; reload the page." }),
+    id: rowIdSchema,
+    version: z.coerce.number().int().positive({ message: "The form lost its version; reload the page." }).max(MAX_ROW_ID, { message: "Ids and versions are whole numbers up to 2,147,483,647." }),
     reason: optionalText(1000),
   })
   .superRefine(checkQuantities);

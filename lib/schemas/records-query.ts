@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { OUTCOMES } from "../domain/outcomes";
 import { RECORD_STATUSES } from "./record";
+import { rowIdSchema } from "./ids";
 
 /** Columns the records table can sort by, mapped to database columns by the db layer. */
 export const RECORD_SORT_KEYS = [
@@ -24,7 +25,7 @@ const numberOrNull = z.preprocess((v) => (v === "" || v === undefined || v === n
 export const recordsQuerySchema = z
   .object({
     alloy: z.preprocess((v) => (v === undefined || v === "" ? [] : Array.isArray(v) ? v : String(v).split(",")), z.array(z.string().trim().min(1).max(100))),
-    sourceId: z.preprocess((v) => (v === undefined || v === "" ? [] : Array.isArray(v) ? v : String(v).split(",")), z.array(z.coerce.number().int().positive())),
+    sourceId: z.preprocess((v) => (v === undefined || v === "" ? [] : Array.isArray(v) ? v : String(v).split(",")), z.array(rowIdSchema)),
     status: list(RECORD_STATUSES),
     outcome: list(OUTCOMES),
     ranges: z.partialRecord(z.enum(RECORD_RANGE_KEYS), z.object({ min: numberOrNull.default(null), max: numberOrNull.default(null) })).default({}),

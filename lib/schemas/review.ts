@@ -1,7 +1,8 @@
 import { z } from "zod";
 import { RECORD_QUANTITY_FIELD_NAMES, type RecordQuantityField } from "./record";
+import { MAX_ROW_ID } from "./ids";
 
-const id = z.coerce.number({ message: "Give a number." }).int().positive({ message: "Give a positive whole number." });
+const id = z.coerce.number({ message: "Give a number." }).int().positive({ message: "Give a positive whole number." }).max(MAX_ROW_ID, { message: "Give a whole number up to 2,147,483,647." });
 const optionalVersion = z.preprocess((v) => (v === "" || v === null || v === undefined ? null : v), id.nullable()).default(null);
 const reason = z
   .string()

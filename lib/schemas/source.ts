@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { MAX_ROW_ID, rowIdSchema } from "./ids";
 
 export const SOURCE_KINDS = ["journal_article", "conference_paper", "thesis", "preprint", "report", "shop_trial"] as const;
 export const DENSITY_METHODS = ["archimedes", "ct", "image_analysis", "other", "unknown"] as const;
@@ -83,7 +84,7 @@ export type SourceValues = z.output<typeof sourceInputSchema>;
 
 /** Updating a source: the same fields plus the version the editor saw (optimistic locking). */
 export const sourceUpdateSchema = sourceInputSchema.extend({
-  id: z.coerce.number().int().positive(),
-  version: z.coerce.number().int().positive({ message: "The form lost its version; reload the page." }),
+  id: rowIdSchema,
+  version: z.coerce.number().int().positive({ message: "The form lost its version; reload the page." }).max(MAX_ROW_ID, { message: "Ids and versions are whole numbers up to 2,147,483,647." }),
 });
 export type SourceUpdateInput = z.input<typeof sourceUpdateSchema>;

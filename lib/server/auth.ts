@@ -20,7 +20,7 @@ import { getUserCredentials } from "../db/users";
 import { loginSchema } from "../schemas/user";
 import { localActor, type Actor, type Role, ROLES } from "./actor";
 import { isLoopbackHost, serverMode } from "./mode";
-import { fail, guard, invalid, ok, type AppError, type Result } from "./result";
+import { fail, guard, invalid, nulRefusal, ok, type AppError, type Result } from "./result";
 
 // ---------------------------------------------------------------------------------------------
 // Passwords
@@ -232,6 +232,8 @@ export async function login(input: unknown, facts: RequestFacts, now: Date = new
     const refused = crossSite(facts);
     if (refused) return { ok: false, error: refused };
     if (serverMode().mode === "local") return fail("invalid_input", "This server runs in local mode: there is nothing to log in to.");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = loginSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "Give your user name and password.");
     const { name, password } = parsed.data;

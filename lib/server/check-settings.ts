@@ -6,7 +6,7 @@ import { sql, type SqlDatabase, type SqlExecutor } from "../db/sql";
 import { getSettingsVersion, insertSettingsVersion, latestSettingsVersion, listSettingsVersions, type SettingsVersionRow } from "../db/settings";
 import { checkSettingsInputSchema } from "../schemas/check-settings";
 import { requireRole, type Actor } from "./actor";
-import { fail, guard, invalid, ok, type Result } from "./result";
+import { fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
 
 /** The settings key under which check thresholds and quality weights are versioned. */
 export const CHECK_SETTINGS_KEY = "checks";
@@ -76,6 +76,8 @@ export async function getCheckSettings(): Promise<Result<CheckSettingsPage>> {
 export async function saveCheckSettings(input: unknown, actor: Actor): Promise<Result<{ version: number }>> {
   return guard(async () => {
     requireRole(actor, "admin");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = checkSettingsInputSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "Some settings need attention; nothing was saved.");
     return sql().transaction(async (tx): Promise<Result<{ version: number }>> => {

@@ -22,7 +22,8 @@ import { sql, type SqlExecutor } from "../db/sql";
 import { z } from "zod";
 import { requireRole, type Actor } from "./actor";
 import { checkSettingsVersion, currentCheckSettings, isoNow, type SettingsVersionInfo } from "./check-settings";
-import { fail, guard, invalid, ok, type Result } from "./result";
+import { fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
+import { rowIdSchema } from "../schemas/ids";
 
 export interface CheckRunSummary {
   settingsVersion: number;
@@ -238,8 +239,8 @@ export async function checksAfterSave(ids: readonly number[]): Promise<CheckRunS
 
 const runSchema = z.object({
   all: z.boolean().default(false),
-  recordIds: z.array(z.coerce.number().int().positive()).default([]),
-  settingsVersion: z.coerce.number().int().positive().nullish(),
+  recordIds: z.array(rowIdSchema).default([]),
+  settingsVersion: rowIdSchema.nullish(),
 });
 
 /**
@@ -249,6 +250,8 @@ const runSchema = z.object({
 export async function runChecks(input: unknown, actor: Actor): Promise<Result<CheckRunSummary>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = runSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const { all, recordIds, settingsVersion } = parsed.data;

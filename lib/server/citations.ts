@@ -4,6 +4,7 @@ import { findSourceByDoi, findSourcesByTitleKey, getSource } from "../db/sources
 import type { Actor } from "./actor";
 import { updateSource } from "./sources";
 import { fail, guard, ok, type Result } from "./result";
+import { isRowId } from "../schemas/ids";
 
 export interface ExistingSourceMatch {
   id: number;
@@ -68,7 +69,7 @@ export async function assignSourceDoi(sourceId: number, doiText: string, actor: 
   return guard(async () => {
     const doi = normalizeDoi(typeof doiText === "string" ? doiText : "");
     if (!doi) return fail("invalid_input", "That is not a DOI.", { fieldErrors: { doi: ["Not a DOI."] } });
-    const source = await getSource(sourceId);
+    const source = isRowId(sourceId) ? await getSource(sourceId) : null;
     if (!source) return fail("not_found", `Source ${sourceId} does not exist.`);
     if (source.doi === doi) return ok({ id: source.id, version: source.version, doi });
     if (source.doi) return fail("conflict", `Source ${sourceId} already has the DOI ${source.doi}; change it on the source page if it is wrong.`);

@@ -34,7 +34,7 @@ import { coverageQuerySchema, type CoverageQuery, type RangeFilter } from "../sc
 import { currentCheckSettings, type SettingsVersionInfo } from "./check-settings";
 import { DEFAULT_AMBIENT_TEMPERATURE_K } from "./meltpool";
 import { sourceOptionLabel } from "./records-facets";
-import { guard, invalid, ok, type AppError, type Result } from "./result";
+import { guard, invalid, nulRefusal, ok, type AppError, type Result } from "./result";
 
 /** Where the hatch, layer or spot of the window plane came from. */
 export type PlaneValueBasis = "chosen" | "filter" | "median of the selection" | "default";
@@ -240,6 +240,8 @@ async function computeWindow(
  */
 export async function getCoverage(input: unknown): Promise<Result<CoverageReport>> {
   return guard(async (): Promise<Result<CoverageReport>> => {
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = coverageQuerySchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The coverage filters need attention.");
     const q = parsed.data;

@@ -3,7 +3,7 @@ import { figureRecordInputs, type FigureRecordInput } from "../domain/figure-rec
 import { figureReadingSchema } from "../schemas/figure";
 import { requireRole, type Actor } from "./actor";
 import { insertRecordsBulk, prepareBulkRow, type RowError } from "./records-bulk";
-import { fail, guard, invalid, ok, type Result } from "./result";
+import { fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
 
 export interface FigureCommitResult {
   /** Record ids in point order; empty on a dry run. */
@@ -23,6 +23,8 @@ export interface FigureCommitResult {
 export async function commitFigureReading(input: unknown, actor: Actor): Promise<Result<FigureCommitResult>> {
   return guard(async (): Promise<Result<FigureCommitResult>> => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = figureReadingSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The figure reading needs attention; nothing was written.");
     const r = parsed.data;

@@ -7,6 +7,7 @@ import { resolveDatabaseTarget } from "../db/location";
 import { getSource } from "../db/sources";
 import { requireRole, type Actor } from "./actor";
 import { fail, guard, ok, type Result } from "./result";
+import { isRowId } from "../schemas/ids";
 
 /** Default upload limit; MELTLEDGER_UPLOAD_LIMIT_MB overrides it (papers with scanned figures run to tens of MB). */
 export const DEFAULT_UPLOAD_LIMIT_MB = 50;
@@ -165,7 +166,7 @@ export interface AttachedDocument extends SourceDocumentRow {
 export async function attachPdfToSource(sourceId: number, input: Chunks, fileName: string, actor: Actor, options: { limitBytes?: number } = {}): Promise<Result<AttachedDocument>> {
   return guard(async () => {
     requireRole(actor, "contributor");
-    if (!Number.isInteger(sourceId) || sourceId <= 0 || !(await getSource(sourceId))) return fail("not_found", `Source ${sourceId} does not exist.`);
+    if (!isRowId(sourceId) || !(await getSource(sourceId))) return fail("not_found", `Source ${sourceId} does not exist.`);
     const name = safeDisplayName(fileName);
     const stored = await storeUpload(input, "pdf", name, options);
     if (!stored.ok) return stored;
@@ -187,13 +188,13 @@ export async function storeImportFile(input: Chunks, kind: "csv" | "xlsx", fileN
 }
 
 export async function listDocuments(sourceId: number): Promise<Result<SourceDocumentRow[]>> {
-  return guard(async () => ok(await listSourceDocuments(sourceId)));
+  return guard(async () => ok(isRowId(sourceId) ? await listSourceDocuments(sourceId) : []));
 }
 
 /** A source's PDFs and its DOI, for the paper pane (which offers a DOI found in the paper). */
 export async function getSourcePapers(sourceId: number): Promise<Result<{ documents: SourceDocumentRow[]; sourceDoi: string | null }>> {
   return guard(async () => {
-    const source = Number.isInteger(sourceId) && sourceId > 0 ? await getSource(sourceId) : null;
+    const source = isRowId(sourceId) ? await getSource(sourceId) : null;
     if (!source) return fail("not_found", `Source ${sourceId} does not exist.`);
     return ok({ documents: await listSourceDocuments(sourceId), sourceDoi: source.doi });
   });
@@ -202,7 +203,7 @@ export async function getSourcePapers(sourceId: number): Promise<Result<{ docume
 /** A source document's bytes for the PDF pane. */
 export async function openDocument(documentId: number): Promise<Result<{ document: SourceDocumentRow; stream: ReadStream; sizeBytes: number }>> {
   return guard(async () => {
-    if (!Number.isInteger(documentId) || documentId <= 0) return fail("not_found", "No such document.");
+    if (!isRowId(documentId)) return fail("not_found", "No such document.");
     const document = await getSourceDocument(documentId);
     if (!document) return fail("not_found", `Document ${documentId} does not exist.`);
     const file = storedFilePath(document.sha256);

@@ -4,7 +4,8 @@
 import { z } from "zod";
 import { listFlags as listFlagRows, openFlagCounts, type FlagCounts, type FlagListRow } from "../db/flags";
 import { sql } from "../db/sql";
-import { guard, invalid, ok, type Result } from "./result";
+import { guard, invalid, nulRefusal, ok, type Result } from "./result";
+import { MAX_ROW_ID, rowIdSchema } from "../schemas/ids";
 
 /** A flag as pipelines see it: snake_case keys, the record's import file and row when it was imported. */
 export interface FlagJson {
@@ -54,8 +55,8 @@ export function toFlagJson(f: FlagListRow): FlagJson {
 }
 
 const filterSchema = z.object({
-  recordId: z.coerce.number({ message: "--record takes a record id." }).int().positive({ message: "--record takes a record id." }).nullish(),
-  sourceId: z.coerce.number().int().positive().nullish(),
+  recordId: z.coerce.number({ message: "--record takes a record id." }).int().positive({ message: "--record takes a record id." }).max(MAX_ROW_ID, { message: "--record takes a record id." }).nullish(),
+  sourceId: rowIdSchema.nullish(),
   state: z.enum(["open", "resolved", "waived"], { message: "--state is open, resolved or waived." }).nullish(),
   codePrefix: z.string().trim().min(1).max(100).nullish(),
   severity: z.enum(["error", "warning", "info"], { message: "--severity is error, warning or info." }).nullish(),
@@ -64,6 +65,8 @@ const filterSchema = z.object({
 /** Every flag matching the filter (no paging: scripts want the whole list). */
 export async function listFlags(input: unknown): Promise<Result<FlagJson[]>> {
   return guard(async () => {
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = filterSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The filter needs attention.");
     return ok((await listFlagRows(sql(), parsed.data)).map(toFlagJson));

@@ -7,10 +7,12 @@ import type { ImportRunRow } from "../db/imports";
 import { getNewRecordForm } from "./record-editor";
 import type { SourceOption } from "./records-facets";
 import { commitImport, listRecentImports, parseMappingJson, previewImport, type ImportAnalysis, type ImportCommit, type ImportOptions, type ImportProgress, type TableInput } from "./imports";
-import { fail, guard, invalid, ok, type Result } from "./result";
+import { fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
 
 /** Turns a validated request into the importer's input; a file is found by its hash in the store. */
 function toInput(body: unknown): Result<{ input: TableInput; options: ImportOptions }> {
+  const nul = nulRefusal(body);
+  if (nul) return nul;
   const parsed = importRequestSchema.safeParse(body);
   if (!parsed.success) return invalid(parsed.error);
   const r = parsed.data;

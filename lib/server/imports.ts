@@ -14,7 +14,9 @@ import { looksLikeHeader, splitTableText, type PasteSplitter } from "../domain/t
 import { requireRole, type Actor } from "./actor";
 import { checksAfterSave, qualityScorerFor } from "./checks";
 import { prepareBulkRow, writePreparedRows, type PreparedBulkRow } from "./records-bulk";
-import { fail, guard, ok, type Result } from "./result";
+import { fail, guard, nulRefusal, ok, type Result } from "./result";
+import { isRowId, rowIdSchema } from "../schemas/ids";
+import { NUL_MESSAGE } from "../schemas/plain-input";
 
 // ---------------------------------------------------------------------------------------------
 // Where the rows come from
@@ -333,7 +335,10 @@ async function analyse(input: TableInput, options: ImportOptions, db: SqlExecuto
     }
     rowCount++;
     const rowProblems = mapped.problems;
-    const key = mapped.doi ? `doi:${mapped.doi}` : mapped.sourceUrl ? `url:${mapped.sourceUrl}` : defaultSource.id === null && defaultSource.doi ? `doi:${defaultSource.doi}` : null;
+    const cellKey = mapped.doi ? `doi:${mapped.doi}` : mapped.sourceUrl ? `url:${mapped.sourceUrl}` : defaultSource.id === null && defaultSource.doi ? `doi:${defaultSource.doi}` : null;
+    // a NUL character cannot be looked up on PostgreSQL (nor stored): a row error on both engines
+    const key = cellKey?.includes("\u0000") ? null : cellKey;
+    if (cellKey !== key) rowProblems.push({ row, field: mapped.doi ? "doi" : "sourceUrl", severity: "error", message: NUL_MESSAGE });
     let sourceId: number | null = key ? null : defaultSource.id;
     let pendingLabel: string | null = null;
     if (key) {
@@ -646,13 +651,15 @@ export async function commitImport(input: TableInput, options: ImportOptions, ac
 
 const presetInput = z.object({
   name: z.string().trim().min(1, { message: "Name the preset." }).max(100),
-  sourceId: z.coerce.number().int().positive().nullable().default(null),
+  sourceId: rowIdSchema.nullable().default(null),
 });
 
 /** Saves a mapping as a named preset (sourceId null) or as the mapping of a source. */
 export async function saveImportPreset(input: { name: string; sourceId?: number | null; mapping: unknown }, actor: Actor): Promise<Result<MappingPresetRow>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const meta = presetInput.safeParse(input);
     if (!meta.success) return fail("invalid_input", meta.error.issues[0]?.message ?? "Name the preset.");
     const mapping = parseMappingJson(input.mapping);
@@ -666,12 +673,13 @@ export async function saveImportPreset(input: { name: string; sourceId?: number 
 }
 
 export async function listImportPresets(sourceId: number | null): Promise<Result<MappingPresetRow[]>> {
-  return guard(async () => ok(await listMappingPresets(sourceId)));
+  // an id no source can have lists the named presets only, as for a source that does not exist
+  return guard(async () => ok(await listMappingPresets(sourceId !== null && isRowId(sourceId) ? sourceId : null)));
 }
 
 export async function getImportPreset(id: number): Promise<Result<MappingPresetRow>> {
   return guard(async () => {
-    const p = await getMappingPreset(id);
+    const p = isRowId(id) ? await getMappingPreset(id) : null;
     return p ? ok(p) : fail("not_found", `Preset ${id} does not exist.`);
   });
 }

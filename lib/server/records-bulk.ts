@@ -4,6 +4,7 @@ import { materialIdFor, type MaterialSpec } from "../db/materials";
 import { insertRecords, type RecordStamp, type RecordWrite } from "../db/records";
 import { sql, type SqlExecutor } from "../db/sql";
 import { recordInputSchema } from "../schemas/record";
+import { NUL_MESSAGE, nulCharacterPath } from "../schemas/plain-input";
 import { parseRecordInputFast } from "../schemas/record-fast";
 import { requireRole, type Actor } from "./actor";
 import { checksAfterSave, qualityScorerFor } from "./checks";
@@ -54,6 +55,9 @@ export interface PreparedBulkRow {
  * (field = the top-level record field).
  */
 export function prepareBulkRow(input: unknown, row: number): { ok: true; prepared: PreparedBulkRow } | { ok: false; errors: RowError[] } {
+  // a NUL character would be refused by PostgreSQL (and kept by SQLite): a row error on both
+  const nul = nulCharacterPath(input);
+  if (nul !== null) return { ok: false, errors: [{ row, field: nul.split(/[.[]/)[0] || "_row", message: NUL_MESSAGE }] };
   // Plainly well-formed rows skip the schema's generic machinery (same result, proven by a
   // property test); anything else goes through the schema for its messages.
   const fast = parseRecordInputFast(input);

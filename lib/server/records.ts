@@ -10,7 +10,8 @@ import { z } from "zod";
 import { requireRole, type Actor } from "./actor";
 import { checksAfterSave } from "./checks";
 import { prepareRecord } from "./record-write";
-import { AppFailure, fail, guard, invalid, ok, type Result } from "./result";
+import { AppFailure, fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
+import { isRowId, rowIdSchema } from "../schemas/ids";
 
 /** The part of a record worth showing in an audit diff. */
 function auditView(r: RecordRow) {
@@ -22,6 +23,8 @@ function auditView(r: RecordRow) {
 export async function createRecord(input: unknown, actor: Actor): Promise<Result<{ id: number; version: number }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = recordInputSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const prepared = prepareRecord(parsed.data);
@@ -46,6 +49,8 @@ export async function createRecord(input: unknown, actor: Actor): Promise<Result
 export async function updateRecord(input: unknown, actor: Actor): Promise<Result<{ id: number; version: number }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = recordUpdateSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const { id, version, reason, ...values } = parsed.data;
@@ -82,8 +87,8 @@ export async function updateRecord(input: unknown, actor: Actor): Promise<Result
 }
 
 const rejectSchema = z.object({
-  id: z.coerce.number().int().positive(),
-  version: z.coerce.number().int().positive(),
+  id: rowIdSchema,
+  version: rowIdSchema,
   reason: z.string().trim().min(3, { message: "Say why the record is rejected (at least 3 characters)." }).max(1000),
 });
 
@@ -91,6 +96,8 @@ const rejectSchema = z.object({
 export async function rejectRecord(input: unknown, actor: Actor): Promise<Result<{ id: number; version: number }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = rejectSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const { id, version, reason } = parsed.data;
@@ -115,7 +122,7 @@ export interface RecordPage {
 
 export async function getRecordPage(id: number): Promise<Result<RecordPage>> {
   return guard(async () => {
-    if (!Number.isInteger(id) || id <= 0) return fail("not_found", "No such record.");
+    if (!isRowId(id)) return fail("not_found", "No such record.");
     const record = await getRecordDetail(id);
     if (!record) return fail("not_found", `Record ${id} does not exist.`);
     // The record's own events and the batch (import, seed) that created it, oldest first.
@@ -135,6 +142,8 @@ export interface RecordsPage {
 /** One page of the records table; filters, sort and paging validated by the shared schema. Runs on either engine. */
 export async function listRecords(input: unknown): Promise<Result<RecordsPage>> {
   return guard(async () => {
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = recordsQuerySchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The table filters need attention.");
     // the total and the rows come from one statement (one snapshot), so a page never disagrees with its count

@@ -10,7 +10,8 @@ import { CANONICAL_UNIT } from "../domain/units";
 import { openFlagCounts, openFlagsOfRecord, reviewQueuePage, type FlagCounts } from "../db/flags";
 import { queueRecord } from "../db/reviews";
 import { sql, type SqlExecutor } from "../db/sql";
-import { guard, invalid, ok, type Result } from "./result";
+import { guard, invalid, nulRefusal, ok, type Result } from "./result";
+import { rowIdSchema } from "../schemas/ids";
 
 export interface QueueValue {
   field: string;
@@ -105,7 +106,7 @@ const PAIR_CODES = new Set(["duplicate.exact", "duplicate.near", "duplicate.labe
 
 const querySchema = z.object({
   code: z.string().trim().max(100).nullish().transform((v) => v || null),
-  sourceId: z.preprocess((v) => (v === "" || v === undefined || v === null ? null : v), z.coerce.number().int().positive().nullable()).default(null),
+  sourceId: z.preprocess((v) => (v === "" || v === undefined || v === null ? null : v), rowIdSchema.nullable()).default(null),
   page: z.preprocess((v) => (v === "" || v === undefined || v === null ? 0 : v), z.coerce.number().int().min(0).max(100_000)).default(0),
   pageSize: z.preprocess((v) => (v === "" || v === undefined || v === null ? 20 : v), z.coerce.number().int().min(1).max(100)).default(20),
 });
@@ -113,6 +114,8 @@ const querySchema = z.object({
 /** One page of the queue (filters: a rule-code prefix and a source). */
 export async function getReviewQueue(input: unknown): Promise<Result<ReviewQueue>> {
   return guard(async () => {
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = querySchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The queue filter needs attention.");
     const { code, sourceId, page, pageSize } = parsed.data;

@@ -25,7 +25,7 @@ import { sourceQualityOverrideSchema } from "../schemas/review";
 import { requireRole, type Actor } from "./actor";
 import { isoNow } from "./check-settings";
 import { runChecksIn, type CheckRunSummary } from "./checks";
-import { AppFailure, fail, guard, invalid, ok, type Result } from "./result";
+import { AppFailure, fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
 
 export interface FlagActionResult {
   flagId: number;
@@ -246,6 +246,8 @@ async function act(db: SqlExecutor, input: ParsedAction, actor: Actor): Promise<
 export async function resolveFlag(input: unknown, actor: Actor): Promise<Result<FlagActionResult>> {
   return guard(async () => {
     requireRole(actor, "reviewer");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = flagActionSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The action needs attention; nothing was changed.");
     return ok(await actOnFlag(parsed.data, actor));
@@ -266,6 +268,8 @@ export interface BulkItemResult {
 export async function resolveFlagsBulk(input: unknown, actor: Actor): Promise<Result<{ done: number; failed: number; items: BulkItemResult[] }>> {
   return guard(async () => {
     requireRole(actor, "reviewer");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = bulkFlagActionSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The bulk action needs attention; nothing was changed.");
     const items: BulkItemResult[] = [];
@@ -290,6 +294,8 @@ export async function resolveFlagsBulk(input: unknown, actor: Actor): Promise<Re
 export async function acceptRecord(input: unknown, actor: Actor): Promise<Result<{ recordId: number; version: number; acceptedFlags: number }>> {
   return guard(async () => {
     requireRole(actor, "reviewer");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = acceptRecordSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The action needs attention; nothing was changed.");
     return sql().transaction(async (db): Promise<Result<{ recordId: number; version: number; acceptedFlags: number }>> => {
@@ -325,6 +331,8 @@ export async function acceptRecord(input: unknown, actor: Actor): Promise<Result
 export async function setSourceQualityOverride(input: unknown, actor: Actor): Promise<Result<{ sourceId: number; version: number; records: number }>> {
   return guard(async () => {
     requireRole(actor, "reviewer");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = sourceQualityOverrideSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The override needs attention; nothing was changed.");
     return sql().transaction(async (db): Promise<Result<{ sourceId: number; version: number; records: number }>> => {

@@ -7,6 +7,7 @@ import { loadSourceAttributes, sourceQualityStats } from "../db/check-inputs";
 import { sql } from "../db/sql";
 import { currentCheckSettings } from "./check-settings";
 import { fail, guard, ok, type Result } from "./result";
+import { isRowId } from "../schemas/ids";
 
 export interface SourceQualityView extends SourceQuality {
   sourceId: number;
@@ -20,7 +21,7 @@ export interface SourceQualityView extends SourceQuality {
 
 export async function getSourceQuality(sourceId: number): Promise<Result<SourceQualityView>> {
   return guard(async () => {
-    if (!Number.isInteger(sourceId) || sourceId <= 0) return fail("not_found", "No such source.");
+    if (!isRowId(sourceId)) return fail("not_found", "No such source.");
     const db = sql();
     const source = (await loadSourceAttributes(db, [sourceId])).get(sourceId);
     if (!source) return fail("not_found", `Source ${sourceId} does not exist.`);

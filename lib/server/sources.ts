@@ -5,7 +5,8 @@ import { appendAudit, listAuditFor, type AuditEventRow } from "../db/audit";
 import { findSourceByDoi, findSourcesByTitleKey, getSource, getSourceTx, insertSource, listSources as listSourceRows, updateSourceIfVersion, type SourceData, type SourceListRow, type SourceRow } from "../db/sources";
 import { sourceInputSchema, sourceUpdateSchema, type SourceValues } from "../schemas/source";
 import { requireRole, type Actor } from "./actor";
-import { AppFailure, fail, guard, invalid, ok, type Result } from "./result";
+import { AppFailure, fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
+import { isRowId } from "../schemas/ids";
 
 function toData(v: SourceValues): { ok: true; data: SourceData } | { ok: false; field: string; message: string } {
   let doi: string | null = null;
@@ -32,6 +33,8 @@ const createOptions = z.object({ allowSameTitle: z.boolean().default(false) }).d
 export async function createSource(input: unknown, actor: Actor, options?: { allowSameTitle?: boolean }): Promise<Result<{ id: number; version: number }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = sourceInputSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const opts = createOptions.parse(options);
@@ -63,6 +66,8 @@ export async function createSource(input: unknown, actor: Actor, options?: { all
 export async function updateSource(input: unknown, actor: Actor): Promise<Result<{ id: number; version: number }>> {
   return guard(async () => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = sourceUpdateSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error);
     const { id, version, ...values } = parsed.data;
@@ -100,7 +105,7 @@ export interface SourcePage {
 
 export async function getSourcePage(id: number): Promise<Result<SourcePage>> {
   return guard(async () => {
-    if (!Number.isInteger(id) || id <= 0) return fail("not_found", "No such source.");
+    if (!isRowId(id)) return fail("not_found", "No such source.");
     const source = await getSource(id);
     if (!source) return fail("not_found", `Source ${id} does not exist.`);
     return ok({ source, history: await listAuditFor("source", id) });

@@ -20,7 +20,8 @@ import { requireRole, type Actor } from "./actor";
 import { currentCheckSettings } from "./check-settings";
 import { DEFAULT_WINDOW_PLANE } from "./coverage";
 import { DEFAULT_AMBIENT_TEMPERATURE_K } from "./meltpool";
-import { fail, guard, invalid, ok, type Result } from "./result";
+import { fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
+import { isRowId } from "../schemas/ids";
 
 /** What a set was made from: enough to make it again. */
 export interface SuggestionInputs {
@@ -95,6 +96,8 @@ function medianPositive(column: Float64Array): number | null {
 export async function createSuggestionSet(input: unknown, actor: Actor, now: () => number = Date.now): Promise<Result<SuggestionSetView>> {
   return guard(async (): Promise<Result<SuggestionSetView>> => {
     requireRole(actor, "contributor");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = suggestionRequestSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The suggestion request needs attention.");
     const request = parsed.data;
@@ -167,7 +170,7 @@ export async function createSuggestionSet(input: unknown, actor: Actor, now: () 
 export async function getSuggestionSetView(id: unknown): Promise<Result<SuggestionSetView>> {
   return guard(async (): Promise<Result<SuggestionSetView>> => {
     const n = Number(id);
-    if (!Number.isInteger(n) || n <= 0) return fail("not_found", "No such suggestion set.");
+    if (!isRowId(n)) return fail("not_found", "No such suggestion set.");
     const row = await getSuggestionSet(n);
     if (!row) return fail("not_found", `Suggestion set ${n} does not exist.`);
     const stored = row.suggestions as StoredSuggestions;

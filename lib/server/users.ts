@@ -6,7 +6,7 @@ import { countLoginUsersWithRole, createUserAccount, getUserById, listUserAccoun
 import { newUserSchema, userChangeSchema } from "../schemas/user";
 import { requireRole, type Actor, type Role } from "./actor";
 import { hashPassword } from "./auth";
-import { fail, guard, invalid, ok, type Result } from "./result";
+import { fail, guard, invalid, nulRefusal, ok, type Result } from "./result";
 
 export interface UserView {
   id: number;
@@ -33,6 +33,8 @@ export async function listAccounts(actor: Actor): Promise<Result<UserView[]>> {
 export async function addUser(input: unknown, actor: Actor): Promise<Result<{ id: number; name: string; role: Role }>> {
   return guard(async () => {
     requireRole(actor, "admin");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = newUserSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The account needs attention; nothing was saved.");
     const { name, role, password } = parsed.data;
@@ -50,6 +52,8 @@ export async function addUser(input: unknown, actor: Actor): Promise<Result<{ id
 export async function changeUser(input: unknown, actor: Actor): Promise<Result<{ id: number; name: string; role: string; disabled: boolean }>> {
   return guard(async () => {
     requireRole(actor, "admin");
+    const nul = nulRefusal(input);
+    if (nul) return nul;
     const parsed = userChangeSchema.safeParse(input);
     if (!parsed.success) return invalid(parsed.error, "The change needs attention; nothing was saved.");
     const { id, role, disabled, password, reason } = parsed.data;

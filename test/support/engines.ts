@@ -26,9 +26,10 @@ export interface EngineDatabase {
 
 /**
  * Runs `body` twice, in a block per engine. `current()` is that block's database; it is ready from
- * the block's beforeAll hooks on (create data there or in the tests).
+ * the block's beforeAll hooks on (create data there or in the tests). `engine` is known while the
+ * tests are being collected (for test names or per-engine sizes).
  */
-export function describeEachEngine(name: string, body: (current: () => EngineDatabase) => void): void {
+export function describeEachEngine(name: string, body: (current: () => EngineDatabase, engine: DatabaseEngine) => void): void {
   describe(`${name} (SQLite)`, () => {
     let dir = "";
     let current: EngineDatabase | null = null;
@@ -48,7 +49,7 @@ export function describeEachEngine(name: string, body: (current: () => EngineDat
       await releaseConnections();
       rmSync(dir, { recursive: true, force: true });
     });
-    body(() => current ?? fail());
+    body(() => current ?? fail(), "sqlite");
   });
 
   describePostgres(`${name} (PostgreSQL)`, () => {
@@ -72,7 +73,7 @@ export function describeEachEngine(name: string, body: (current: () => EngineDat
       else process.env.MELTLEDGER_FILES_DIR = filesBefore;
       if (filesRoot) rmSync(filesRoot, { recursive: true, force: true });
     });
-    body(() => current ?? fail());
+    body(() => current ?? fail(), "postgresql");
   });
 }
 
