@@ -8,7 +8,7 @@ import { RULE_CATALOGUE, ruleInfo } from "../domain/checks/index";
 import { CHECKED_FIELDS } from "../domain/checks/fields";
 import { CANONICAL_UNIT } from "../domain/units";
 import { openFlagCounts, openFlagsOfRecord, reviewQueuePage, type FlagCounts } from "../db/flags";
-import { queueRecord } from "../db/reviews";
+import { queueRecord, type QueueRecordRow } from "../db/reviews";
 import { sql, type SqlExecutor } from "../db/sql";
 import { guard, invalid, nulRefusal, ok, type Result } from "./result";
 import { rowIdSchema } from "../schemas/ids";
@@ -21,23 +21,14 @@ export interface QueueValue {
   canonical: number | null;
 }
 
-export interface QueueRecordView {
-  id: number;
-  version: number;
-  status: string;
-  alloyKey: string;
-  designation: string | null;
-  outcome: string;
-  outcomeText: string | null;
-  machine: string | null;
-  atmosphere: string | null;
-  qualityScore: number | null;
-  volumetricEnergyJMm3: number | null;
+/** The record columns the queue shows as stored. */
+type ShownColumns =
+  | "id" | "version" | "status" | "alloyKey" | "designation" | "outcome" | "outcomeText" | "machine" | "atmosphere" | "qualityScore"
+  | "volumetricEnergyJMm3" | "locationPage" | "locationLabel" | "importFile" | "importRow";
+
+/** A record as the queue shows it: those columns, its source, and each value with what was entered. */
+export interface QueueRecordView extends Pick<QueueRecordRow, ShownColumns> {
   source: { id: number; title: string; year: number | null; doi: string | null };
-  locationPage: number | null;
-  locationLabel: string | null;
-  importFile: string | null;
-  importRow: number | null;
   values: QueueValue[];
 }
 

@@ -8,10 +8,9 @@ import { sql } from "@/lib/db/sql";
 import { detectMarkers, type RgbaImage } from "@/lib/domain/marker-detection";
 import { localActor, type Actor } from "@/lib/server/actor";
 import { commitFigureReading } from "@/lib/server/figures";
-import { createSource } from "@/lib/server/sources";
 import type { FigureReadingInput } from "@/lib/schemas/figure";
+import { newSourceId } from "../support/sources";
 import { describeEachEngine } from "../support/engines";
-import { sourceInput } from "../support/fixtures";
 import { inventedFigurePdf } from "../support/pdf";
 import { renderPdfPage } from "../support/pdf-render";
 const figure = inventedFigurePdf();
@@ -68,9 +67,7 @@ describeEachEngine("records from figures", () => {
   let sourceId: number;
   beforeAll(async () => {
     actor = await localActor();
-    const s = await createSource(sourceInput({ doi: "10.5555/figure.pdf.0001", title: "Process map of 316L in an invented study" }), actor);
-    if (!s.ok) throw new Error(s.error.message);
-    sourceId = s.data.id;
+    sourceId = await newSourceId(actor, { doi: "10.5555/figure.pdf.0001", title: "Process map of 316L in an invented study" });
   });
 
   describe("reading a rendered figure", () => {

@@ -11,11 +11,10 @@ import { sql, type SqlValue } from "@/lib/db/sql";
 import { localActor, type Actor } from "@/lib/server/actor";
 import { commitImport, listImportPresets, previewImport, saveImportPreset, type TableInput } from "@/lib/server/imports";
 import { storeImportFile } from "@/lib/server/files";
-import { createSource } from "@/lib/server/sources";
 import { IMPORT_QUANTITY_FIELDS } from "@/lib/domain/column-mapping";
 import { RECORD_QUANTITY_FIELDS } from "@/lib/schemas/record";
+import { newSourceId } from "../support/sources";
 import { describeEachEngine } from "../support/engines";
-import { sourceInput } from "../support/fixtures";
 
 const DATASET = path.resolve(import.meta.dirname, "../../../shared/datasets/lpbf-relative-density-2025/dataset.xlsx");
 const work = mkdtempSync(path.join(os.tmpdir(), "meltledger-import-files-"));
@@ -58,9 +57,7 @@ describeEachEngine("imports", () => {
 
   beforeAll(async () => {
     actor = await localActor();
-    const s = await createSource(sourceInput({ doi: "10.5555/import.0001", title: "An invented study for import tests" }), actor);
-    if (!s.ok) throw new Error(s.error.message);
-    sourceId = s.data.id;
+    sourceId = await newSourceId(actor, { doi: "10.5555/import.0001", title: "An invented study for import tests" });
   });
 
   describe("the open dataset (Barrionuevo et al., Sci. Data 12:375, 2025)", () => {

@@ -8,6 +8,7 @@ import { sql } from "@/lib/db/sql";
 import { localActor, type Actor } from "@/lib/server/actor";
 import { insertRecordsBulk } from "@/lib/server/records-bulk";
 import { createSource } from "@/lib/server/sources";
+import { newSourceId } from "../support/sources";
 import { describeEachEngine } from "../support/engines";
 import { mixedUnitRecord, sourceInput } from "../support/fixtures";
 
@@ -28,9 +29,7 @@ describeEachEngine("bulk-write building blocks", () => {
   let sourceId: number;
   beforeAll(async () => {
     actor = await localActor();
-    const s = await createSource(sourceInput({ doi: "10.5555/intake.0001", title: "An invented study of bulk writes" }), actor);
-    if (!s.ok) throw new Error(s.error.message);
-    sourceId = s.data.id;
+    sourceId = await newSourceId(actor, { doi: "10.5555/intake.0001", title: "An invented study of bulk writes" });
   });
 
   describe("materials", () => {
