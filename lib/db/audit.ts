@@ -1,6 +1,6 @@
 import type { Prisma } from "../generated/prisma/client";
 import { prismaReady } from "./client";
-import type { SqlExecutor } from "./sql";
+import type { SqlExecutor, SqlValue } from "./sql";
 
 export interface AuditInput {
   actorId: number | null;
@@ -33,19 +33,17 @@ export async function appendAudit(tx: Tx, e: AuditInput): Promise<void> {
   });
 }
 
+/** The AuditEvent columns an event is written to, in the order of auditEventValues. */
+export const AUDIT_EVENT_COLUMNS = `"actorId", "actorName", "action", "entityType", "entityId", "before", "after", "reason", "at"`;
+
+/** An event's values for AUDIT_EVENT_COLUMNS: the entity id as text, before and after as JSON. */
+export function auditEventValues(e: AuditInput & { at: string }): SqlValue[] {
+  return [e.actorId, e.actorName, e.action, e.entityType, String(e.entityId), json(e.before), json(e.after), e.reason ?? null, e.at];
+}
+
 /** Appends one audit event on either engine, inside the caller's transaction (`tx` of sql().transaction). */
 export async function appendAuditEvent(db: SqlExecutor, e: AuditInput & { at: string }): Promise<void> {
-  await db.run(`INSERT INTO "AuditEvent" ("actorId", "actorName", "action", "entityType", "entityId", "before", "after", "reason", "at") VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`, [
-    e.actorId,
-    e.actorName,
-    e.action,
-    e.entityType,
-    String(e.entityId),
-    e.before === undefined ? null : JSON.stringify(e.before),
-    e.after === undefined ? null : JSON.stringify(e.after),
-    e.reason ?? null,
-    e.at,
-  ]);
+  await db.run(`INSERT INTO "AuditEvent" (${AUDIT_EVENT_COLUMNS}) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`, auditEventValues(e));
 }
 
 export interface AuditEventRow {

@@ -1,5 +1,4 @@
-import type { AuditInput } from "./audit";
-import { appendAuditEvent } from "./audit";
+import { appendAuditEvent, AUDIT_EVENT_COLUMNS, auditEventValues, type AuditInput } from "./audit";
 import { sqliteNullOrder, type SqlDatabase, type SqlExecutor, type SqlValue } from "./sql";
 
 export type FlagState = "open" | "resolved" | "waived";
@@ -150,12 +149,6 @@ export async function insertFlags(db: SqlExecutor, writes: readonly FlagWrite[],
   }
 }
 
-/** One flag, opened (caller's transaction); its id. */
-export async function insertFlag(db: SqlExecutor, w: FlagWrite, at: string): Promise<number> {
-  const r = await db.run(`${INSERT_FLAG}${INSERT_FLAG_ROW} RETURNING "id"`, insertParams(w, at));
-  return r.lastInsertId!;
-}
-
 /**
  * One UPDATE per row on SQLite; on PostgreSQL `UPDATE … FROM (VALUES …)` in chunks, the VALUES
  * columns named column1, column2, … as both engines name them. `casts` gives each value's SQL type
@@ -259,16 +252,13 @@ export async function setFlagStateAudited(
       return true;
     });
   }
-  // the same columns and values as appendAuditEvent; typed, since a SELECT list gives a parameter no column type
+  // appendAuditEvent's columns and values, each typed: a SELECT list gives a parameter no column type
   const r = await db.get<{ id: number }>(
     `WITH changed AS (${update} RETURNING "id")
-     INSERT INTO "AuditEvent" ("actorId", "actorName", "action", "entityType", "entityId", "before", "after", "reason", "at")
+     INSERT INTO "AuditEvent" (${AUDIT_EVENT_COLUMNS})
      SELECT CAST(? AS INTEGER), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TEXT), CAST(? AS TIMESTAMP(3)) FROM changed
      RETURNING "id"`,
-    [
-      ...updateParams, event.actorId, event.actorName, event.action, event.entityType, String(event.entityId),
-      event.before === undefined ? null : JSON.stringify(event.before), event.after === undefined ? null : JSON.stringify(event.after), event.reason ?? null, event.at,
-    ],
+    [...updateParams, ...auditEventValues(event)],
   );
   return r !== undefined;
 }
