@@ -160,13 +160,12 @@ export async function runChecksIn(tx: SqlExecutor, scope: "all" | readonly numbe
   await resolveFlagsAuto(tx, resolves, options.actor?.id ?? null, settings.version, at);
 
   // Quality: source score × completeness, for the fully checked records.
-  const sources = await loadSourceAttributes(tx, [...new Set(fullIds.map((id) => byId.get(id)?.sourceId).filter((x): x is number => x !== undefined))]);
-  const sourceScores = new Map([...sources].map(([id, s]) => [id, scoreSource(s, settings.values).score]));
+  const sourceScores = await sourceScoresOf(tx, fullIds.map((id) => byId.get(id)?.sourceId).filter((x): x is number => x !== undefined), settings.values);
   const scores: [number, number][] = [];
   for (const id of fullIds) {
     const r = byId.get(id);
     if (!r) continue;
-    const q = recordQuality(sourceScores.get(r.sourceId) ?? 0, completenessValueOf(r, settings.values));
+    const q = recordQuality(sourceScores.get(r.sourceId)!, completenessValueOf(r, settings.values));
     if (r.qualityScore !== q) scores.push([id, q]);
   }
   await writeQualityScores(tx, scores);
@@ -181,6 +180,13 @@ export async function runChecksIn(tx: SqlExecutor, scope: "all" | readonly numbe
   }
   summary.ms = Math.round(performance.now() - started);
   return summary;
+}
+
+/** The score of each named source under `settings`; a source that does not exist scores 0 (its records score as unsourced). */
+async function sourceScoresOf(db: SqlExecutor, ids: Iterable<number>, settings: CheckSettings): Promise<Map<number, number>> {
+  const unique = [...new Set(ids)];
+  const attributes = await loadSourceAttributes(db, unique);
+  return new Map(unique.map((id) => [id, attributes.has(id) ? scoreSource(attributes.get(id)!, settings).score : 0]));
 }
 
 /** runChecksIn in a writing transaction of its own. */
@@ -213,9 +219,7 @@ function qualityOf(w: Omit<RecordWrite, "materialId">, sourceScore: number, sett
 export async function qualityScorerFor(db: SqlExecutor, sourceIds: Iterable<number>): Promise<(w: Omit<RecordWrite, "materialId">) => number> {
   const settings = (await currentCheckSettings(db)).values;
   const ids = [...new Set(sourceIds)];
-  const attributes = await loadSourceAttributes(db, ids);
-  // a source that does not exist scores 0, as a check run would score its records
-  const sourceScores = new Map(ids.map((id) => [id, attributes.has(id) ? scoreSource(attributes.get(id)!, settings).score : 0]));
+  const sourceScores = await sourceScoresOf(db, ids, settings);
   return (w) => {
     const score = sourceScores.get(w.sourceId);
     if (score === undefined) throw new RangeError(`qualityScorerFor: source ${w.sourceId} was not among the sources given (${ids.join(", ") || "none"})`);
