@@ -50,12 +50,14 @@ function integrityOf(db: SqliteDatabase): string {
   return rows.map((r) => r.integrity_check).join("; ");
 }
 
-function migrationsOf(db: SqliteDatabase): string[] {
+/** Applied migrations of a SQLite database, by name: finished and not rolled back, as the migration runner counts them. */
+export function appliedMigrationNames(db: SqliteDatabase): string[] {
   if (!hasTable(db, "_prisma_migrations")) return [];
-  return (db.prepare(`SELECT migration_name AS name FROM _prisma_migrations WHERE finished_at IS NOT NULL ORDER BY migration_name`).all() as { name: string }[]).map((r) => r.name);
+  return (db.prepare(`SELECT migration_name AS name FROM _prisma_migrations WHERE finished_at IS NOT NULL AND rolled_back_at IS NULL ORDER BY migration_name`).all() as { name: string }[]).map((r) => r.name);
 }
 
-function storedFilesOf(db: SqliteDatabase): string[] {
+/** SHA-256 names of the stored files a SQLite database refers to, in order. */
+export function storedFileShasOf(db: SqliteDatabase): string[] {
   if (!hasTable(db, "StoredFile")) return [];
   return (db.prepare(`SELECT sha256 FROM StoredFile ORDER BY sha256`).all() as { sha256: string }[]).map((r) => r.sha256);
 }
@@ -72,7 +74,7 @@ function withSnapshot<T>(file: string, body: (db: SqliteDatabase) => T): T {
 
 /** The facts a manifest records about the SQLite file `file` (a snapshot, opened read-only). */
 export function sqliteSnapshotFacts(file: string): SqliteSnapshotFacts {
-  return withSnapshot(file, (db) => ({ integrity: integrityOf(db), counts: countsOf(db), migrations: migrationsOf(db), storedFiles: storedFilesOf(db) }));
+  return withSnapshot(file, (db) => ({ integrity: integrityOf(db), counts: countsOf(db), migrations: appliedMigrationNames(db), storedFiles: storedFileShasOf(db) }));
 }
 
 /** SQLite's integrity_check of the file `file` (opened read-only): "ok" when whole. */

@@ -12,6 +12,7 @@
  */
 import { createHash } from "node:crypto";
 import pg from "pg";
+import { appliedMigrationNames, storedFileShasOf } from "./backup-sqlite";
 import { openSqlite, type SqliteDatabase } from "./connection";
 import type { PostgresClient } from "./postgres";
 
@@ -340,8 +341,8 @@ export async function withSqliteSource<T>(filePath: string, body: (source: Sqlit
   const db = openSqlite(filePath, { readonly: true });
   try {
     return await body({
-      appliedMigrations: () => (db.prepare(`SELECT migration_name AS name FROM _prisma_migrations WHERE finished_at IS NOT NULL AND rolled_back_at IS NULL ORDER BY migration_name`).all() as { name: string }[]).map((r) => r.name),
-      storedFileShas: () => (db.prepare(`SELECT sha256 FROM StoredFile ORDER BY sha256`).all() as { sha256: string }[]).map((r) => r.sha256),
+      appliedMigrations: () => appliedMigrationNames(db),
+      storedFileShas: () => storedFileShasOf(db),
       copyTo: (target, options) => copySqliteToPostgres(db, target, options),
     });
   } finally {
