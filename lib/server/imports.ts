@@ -550,9 +550,10 @@ async function writeImport(tx: SqlExecutor, w: ImportWrite): Promise<ImportWritt
     for (let i = 0; i < chunk.length; i++) ids.push({ row: chunk[i]!.row, id: chunkIds[i]! });
     options.onProgress?.({ phase: "writing", rowsRead: analysis.rowCount, rowsWritten: ids.length, rowsTotal: total });
     // No turn of the event loop is given here on purpose. On PostgreSQL every statement already
-    // waits on the server, and a cancel arrives meanwhile; on SQLite the transaction holds the
-    // process's raw connection, and a request served now that still writes on that connection
-    // directly (not through sql()) would write inside this transaction.
+    // waits on the server, and a cancel arrives meanwhile. On SQLite this transaction holds the
+    // write lock: a request served now that saves through Prisma (a connection of its own, driven
+    // synchronously) would wait on that lock with the event loop blocked, so this transaction could
+    // not go on until the other's busy timeout gave up.
     if (cancelled(options.signal)) throw new ImportCancelled();
   }
 
