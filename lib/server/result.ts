@@ -145,9 +145,11 @@ export function postgresCodeOf(error: unknown): string | null {
  * Validation in lib/schemas and lib/server refuses these first with a message naming the field:
  * this is the net under it. SQLSTATEs from the PostgreSQL documentation, Appendix A (Error Codes).
  */
+const SAME_KEY = "Something with the same key was stored at the same time; nothing was changed. Reload and try again.";
+
 export function databaseRefusal(error: unknown): { ok: false; error: AppError } | null {
   // better-sqlite3's extended result code for a UNIQUE constraint (SQLite documentation, "Result and Error Codes")
-  if (sqliteCodeOf(error) === "SQLITE_CONSTRAINT_UNIQUE") return fail("conflict", "Something with the same key was stored at the same time; nothing was changed. Reload and try again.", { engine: "sqlite" });
+  if (sqliteCodeOf(error) === "SQLITE_CONSTRAINT_UNIQUE") return fail("conflict", SAME_KEY, { engine: "sqlite" });
   const code = postgresCodeOf(error);
   if (!code) return null;
   // 22003 numeric_value_out_of_range: an integer beyond INTEGER (32-bit) or BIGINT, a float beyond double precision
@@ -157,6 +159,6 @@ export function databaseRefusal(error: unknown): { ok: false; error: AppError } 
   // 22008 datetime_field_overflow, 22007 invalid_datetime_format
   if (code === "22008" || code === "22007") return fail("invalid_input", "A date is outside the range the database can store; nothing was changed. Check the dates you entered.", { engine: "postgresql", sqlstate: code });
   // 23505 unique_violation: another request stored the same key first
-  if (code === "23505") return fail("conflict", "Something with the same key was stored at the same time; nothing was changed. Reload and try again.", { engine: "postgresql", sqlstate: code });
+  if (code === "23505") return fail("conflict", SAME_KEY, { engine: "postgresql", sqlstate: code });
   return null;
 }
