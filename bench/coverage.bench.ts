@@ -3,7 +3,6 @@
 // suggested experiments against the same bare query for the alloy. With BENCH_POSTGRES_URL (a
 // PostgreSQL server the bench may create and drop a database on), the same records are copied
 // there (`db copy`) and the coverage view is timed on PostgreSQL too, its reports compared with SQLite's.
-import { randomUUID } from "node:crypto";
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -22,6 +21,7 @@ import { insertRecordsBulk } from "../lib/server/records-bulk";
 import { createSource } from "../lib/server/sources";
 import { createSuggestionSet } from "../lib/server/suggestions";
 import { benchRecordInputs } from "./records-fixture";
+import { withScratchPostgresDatabase } from "./postgres-scratch";
 import type { BenchFigure, BenchSuite } from "./types";
 
 const N = Number(process.env.BENCH_RECORDS ?? 100_000);
@@ -155,46 +155,42 @@ export const coverageBench: BenchSuite = async () => {
 
 /** The coverage view of the same selections on a PostgreSQL copy of the bench database. */
 async function postgresFigure(serverUrl: string, dir: string, queries: readonly unknown[], sqliteReports: string[], sqliteMedian: number): Promise<BenchFigure> {
-  const name = `meltledger_bench_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
-  const url = new URL(serverUrl);
-  await withPostgres(url.toString(), (c) => c.query(`CREATE DATABASE "${name}"`));
-  url.pathname = `/${name}`;
   const sqliteUrl = process.env.DATABASE_URL;
-  try {
-    await disconnectPrisma();
-    closeSqlite();
-    const copied = await copyDatabase({ from: `file:${path.join(dir, "bench.db")}`, to: url.toString(), filesTo: path.join(dir, "pg-files") });
-    if (!copied.ok) throw new Error(copied.error.message);
-    process.env.DATABASE_URL = url.toString();
-    await withPostgres(url.toString(), (c) => c.query("ANALYZE"));
-    const times: number[] = [];
-    const differ = new Set<number>();
-    for (let round = 0; round < 6; round++) {
-      for (const [i, input] of queries.entries()) {
-        const t = performance.now();
-        const r = await getCoverage(input);
-        if (!r.ok) throw new Error(r.error.message);
-        const json = JSON.stringify(coverageJson(r.data));
-        times.push(performance.now() - t);
-        if (json !== sqliteReports[i]) differ.add(i);
+  return withScratchPostgresDatabase(serverUrl, async (url) => {
+    try {
+      await disconnectPrisma();
+      closeSqlite();
+      const copied = await copyDatabase({ from: `file:${path.join(dir, "bench.db")}`, to: url, filesTo: path.join(dir, "pg-files") });
+      if (!copied.ok) throw new Error(copied.error.message);
+      process.env.DATABASE_URL = url;
+      await withPostgres(url, (c) => c.query("ANALYZE"));
+      const times: number[] = [];
+      const differ = new Set<number>();
+      for (let round = 0; round < 6; round++) {
+        for (const [i, input] of queries.entries()) {
+          const t = performance.now();
+          const r = await getCoverage(input);
+          if (!r.ok) throw new Error(r.error.message);
+          const json = JSON.stringify(coverageJson(r.data));
+          times.push(performance.now() - t);
+          if (json !== sqliteReports[i]) differ.add(i);
+        }
       }
+      const pgMedian = median(times.slice(queries.length));
+      return {
+        name: "the coverage view on PostgreSQL (records copied with db copy), window kept, median of 4 selections",
+        value: pgMedian,
+        unit: "ms",
+        target: "the same reports as SQLite; <= 300 ms",
+        pass: differ.size === 0 && pgMedian <= 300,
+        baseline: { name: "the same on SQLite above", value: sqliteMedian, unit: "ms" },
+        ratio: { value: pgMedian / sqliteMedian },
+        notes: differ.size ? `reports that differ from SQLite's: selections ${[...differ].join(", ")}` : "every report the same as on SQLite",
+      };
+    } finally {
+      await closeSql();
+      await disconnectPrisma();
+      process.env.DATABASE_URL = sqliteUrl;
     }
-    const pgMedian = median(times.slice(queries.length));
-    return {
-      name: "the coverage view on PostgreSQL (records copied with db copy), window kept, median of 4 selections",
-      value: pgMedian,
-      unit: "ms",
-      target: "the same reports as SQLite; <= 300 ms",
-      pass: differ.size === 0 && pgMedian <= 300,
-      baseline: { name: "the same on SQLite above", value: sqliteMedian, unit: "ms" },
-      ratio: { value: pgMedian / sqliteMedian },
-      notes: differ.size ? `reports that differ from SQLite's: selections ${[...differ].join(", ")}` : "every report the same as on SQLite",
-    };
-  } finally {
-    await closeSql();
-    await disconnectPrisma();
-    process.env.DATABASE_URL = sqliteUrl;
-    url.pathname = "/postgres";
-    await withPostgres(url.toString(), (c) => c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`));
-  }
+  });
 }

@@ -6,7 +6,6 @@
 // drop a database on, e.g. the one scripts/test-postgres.sh starts), the same records are copied
 // there (`db copy`) and exported again, and the two exports' files must be byte-identical.
 import { execFileSync } from "node:child_process";
-import { randomUUID } from "node:crypto";
 import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -14,12 +13,12 @@ import { parse } from "csv-parse/sync";
 import { closeSqlite, sqlite } from "../lib/db/connection";
 import { disconnectPrisma } from "../lib/db/client";
 import { migrate } from "../lib/db/migrate";
-import { withPostgres } from "../lib/db/postgres";
 import { copyDatabase } from "../lib/server/db-copy";
 import { localActor } from "../lib/server/actor";
 import { insertRecordsBulk } from "../lib/server/records-bulk";
 import { createSource } from "../lib/server/sources";
 import { benchRecordInputs } from "./records-fixture";
+import { withScratchPostgresDatabase } from "./postgres-scratch";
 import type { BenchFigure, BenchSuite } from "./types";
 
 const N = Number(process.env.BENCH_EXPORT_RECORDS ?? 100_000);
@@ -41,17 +40,13 @@ function runChild(database: string, requestFile: string, env: NodeJS.ProcessEnv 
 
 /** The same export on PostgreSQL, from a copy of the same database. */
 async function postgresFigure(serverUrl: string, dir: string, requestFile: string, sqliteRun: ChildSummary): Promise<BenchFigure> {
-  const name = `meltledger_bench_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
-  const url = new URL(serverUrl);
-  await withPostgres(url.toString(), (c) => c.query(`CREATE DATABASE "${name}"`));
-  url.pathname = `/${name}`;
-  try {
+  return withScratchPostgresDatabase(serverUrl, async (url) => {
     const filesTo = path.join(dir, "pg-files");
-    const copied = await copyDatabase({ from: `file:${path.join(dir, "bench.db")}`, to: url.toString(), filesTo });
+    const copied = await copyDatabase({ from: `file:${path.join(dir, "bench.db")}`, to: url, filesTo });
     if (!copied.ok) throw new Error(copied.error.message);
     // the SQLite run's record (ExportRun "bench") came along with the copy: this one gets another name
     writeFileSync(requestFile, JSON.stringify({ ...JSON.parse(readFileSync(requestFile, "utf8")), name: "bench-pg" }));
-    const pg = runChild(url.toString(), requestFile, { ...process.env, MELTLEDGER_FILES_DIR: filesTo });
+    const pg = runChild(url, requestFile, { ...process.env, MELTLEDGER_FILES_DIR: filesTo });
     const differ = pg.files.filter((f) => sqliteRun.files.find((g) => g.name === f.name)?.sha256 !== f.sha256).map((f) => f.name);
     const seconds = pg.ms / 1000;
     return {
@@ -64,10 +59,7 @@ async function postgresFigure(serverUrl: string, dir: string, requestFile: strin
       ratio: { value: pg.ms / sqliteRun.ms },
       notes: `${differ.length ? `files that differ: ${differ.join(", ")}` : "every file byte-identical"}; ${Object.entries(pg.timings).map(([k, v]) => `${k} ${(v / 1000).toFixed(2)} s`).join(", ")}`,
     };
-  } finally {
-    url.pathname = "/postgres";
-    await withPostgres(url.toString(), (c) => c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`));
-  }
+  });
 }
 
 export const exportBench: BenchSuite = async () => {

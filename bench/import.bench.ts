@@ -4,15 +4,14 @@
 // server the bench may create and drop a database on, e.g. the one scripts/test-postgres.sh
 // starts), also a 10k-row import on PostgreSQL.
 import { execFileSync } from "node:child_process";
-import { randomUUID } from "node:crypto";
 import { mkdtempSync, rmSync, statSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { openSqlite } from "../lib/db/connection";
 import { migrate } from "../lib/db/migrate";
-import { withPostgres } from "../lib/db/postgres";
 import { RECORD_INSERT_SQL } from "../lib/db/records";
 import { writeImportBenchCsv } from "./import-fixture";
+import { withScratchPostgresDatabase } from "./postgres-scratch";
 import type { BenchFigure, BenchSuite } from "./types";
 
 const N = Number(process.env.BENCH_IMPORT_ROWS ?? 100_000);
@@ -39,12 +38,8 @@ function runChild(csv: string, database: string): ChildFigures {
 async function postgresFigure(serverUrl: string, dir: string): Promise<BenchFigure> {
   const csv = path.join(dir, "bench-pg.csv");
   await writeImportBenchCsv(csv, PG_ROWS);
-  const name = `meltledger_bench_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
-  const url = new URL(serverUrl);
-  await withPostgres(url.toString(), (c) => c.query(`CREATE DATABASE "${name}"`));
-  url.pathname = `/${name}`;
-  try {
-    const child = runChild(csv, url.toString());
+  return withScratchPostgresDatabase(serverUrl, async (url) => {
+    const child = runChild(csv, url);
     if (child.imported !== PG_ROWS) throw new Error(`import wrote ${child.imported} of ${PG_ROWS} rows`);
     const seconds = child.ms / 1000;
     return {
@@ -55,10 +50,7 @@ async function postgresFigure(serverUrl: string, dir: string): Promise<BenchFigu
       pass: seconds <= 30,
       notes: `reading and validating ${(child.readMs / 1000).toFixed(1)} s, ${child.checksRan ? `checks ${(child.checksMs / 1000).toFixed(1)} s` : "checks did not run"}`,
     };
-  } finally {
-    url.pathname = "/postgres";
-    await withPostgres(url.toString(), (c) => c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`));
-  }
+  });
 }
 
 export const importBench: BenchSuite = async () => {
